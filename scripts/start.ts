@@ -1,0 +1,91 @@
+// `npm start`: services up, migrations, demo seed on an empty database, a build when the sources
+// changed since the last one, then the app on http://127.0.0.1:PORT. Ctrl-C stops what it started.
+import { execFileSync } from "node:child_process";
+import { existsSync, readdirSync, statSync } from "node:fs";
+import path from "node:path";
+import { env } from "@/lib/env";
+import { createDb } from "@/db/client";
+import { migrate } from "@/db/migrate";
+import { seedDemoIfEmpty } from "@/db/seed/index";
+import { DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo-users";
+import { root, serviceConfig, startApp, startServices, stopAll, type StartedService } from "./services";
+
+const SOURCES = ["app", "lib", "db", "sync", "service-worker", "public"];
+const SOURCE_FILES = ["package-lock.json", "next.config.js", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json"];
+
+function newestMtime(p: string): number {
+  if (!existsSync(p)) return 0;
+  const st = statSync(p);
+  if (!st.isDirectory()) return path.basename(p).startsWith("sw.js") ? 0 : st.mtimeMs;
+  let newest = st.mtimeMs;
+  for (const entry of readdirSync(p)) newest = Math.max(newest, newestMtime(path.join(p, entry)));
+  return newest;
+}
+
+export function buildIsStale(): boolean {
+  const buildId = path.join(root, ".next", "BUILD_ID");
+  if (!existsSync(buildId) || !existsSync(path.join(root, "public", "sw.js"))) return true;
+  const built = statSync(buildId).mtimeMs;
+  const sources = [...SOURCES, ...SOURCE_FILES].map((s) => newestMtime(path.join(root, s)));
+  return Math.max(...sources) > built;
+}
+
+export function build(childEnv: NodeJS.ProcessEnv) {
+  console.log("Building the app (sources changed since the last build)…");
+  execFileSync("npm", ["run", "build"], { cwd: root, stdio: "inherit", env: childEnv });
+}
+
+async function main() {
+  const cfg = serviceConfig(env);
+  const services: StartedService[] = [];
+  let stopping = false;
+  const shutdown = async (code: number) => {
+    if (stopping) return;
+    stopping = true;
+    console.log("\nStopping Trenchbook…");
+    await stopAll(services);
+    process.exit(code);
+  };
+  process.on("SIGINT", () => void shutdown(0));
+  process.on("SIGTERM", () => void shutdown(0));
+
+  try {
+    services.push(...(await startServices(cfg)));
+    const db = createDb(env.DATABASE_URL, 2);
+    try {
+      await migrate(db);
+      const seeded = await seedDemoIfEmpty(db);
+      console.log(seeded ? "Seeded the demo scenario." : "Database already has data; seed skipped.");
+    } finally {
+      await db.destroy();
+    }
+    const childEnv = {
+      ...process.env,
+      NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? env.APP_URL,
+      NEXT_TELEMETRY_DISABLED: "1",
+    };
+    if (buildIsStale()) build(childEnv);
+    services.push(await startApp(env.PORT, { ...childEnv, NODE_ENV: "production" }, null));
+  } catch (err) {
+    console.error(`\n${err instanceof Error ? err.message : String(err)}`);
+    await shutdown(1);
+    return;
+  }
+
+  const mail = services.find((s) => s.name === "SMTP fake");
+  const s3 = services.find((s) => s.name === "S3 fake");
+  console.log(`
+Trenchbook is running.
+  app          ${env.APP_URL}
+  health       ${env.APP_URL}/api/health
+  mail inbox   ${mail?.url} (SMTP on 127.0.0.1:${env.SMTP_PORT})
+  S3 fake      ${s3?.url} (bucket ${env.S3_BUCKET})
+  PostgreSQL   127.0.0.1:${cfg.pgPort} database ${cfg.dbName}
+
+Demo sign-ins (password "${DEMO_PASSWORD}"):
+${DEMO_USERS.map((u) => `  ${u.role.padEnd(11)} ${u.email}`).join("\n")}
+
+Press Ctrl-C to stop.`);
+}
+
+void main();
