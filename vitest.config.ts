@@ -5,9 +5,8 @@ const root = fileURLToPath(new URL(".", import.meta.url));
 
 export default defineConfig({
   resolve: {
-    alias: { "@": root },
-    // Resolve "server-only" to its server build, as Next does for server modules.
-    conditions: ["react-server", "node", "import", "default"],
+    // Server modules import "server-only"; in tests they run as the server, as under Next.
+    alias: { "@": root, "server-only": `${root}node_modules/server-only/empty.js` },
   },
   test: {
     projects: [

@@ -4,6 +4,9 @@ import type { ColumnType, Generated, Insertable, Selectable, Updateable } from "
 // bigint (int8) to number (sync versions stay far below 2^53) and keeps dates as 'YYYY-MM-DD'.
 type Timestamp = ColumnType<Date, Date | string, Date | string>;
 type Json = ColumnType<unknown, string, string>;
+// Column types with a database default (kysely's Generated<> must not wrap a ColumnType).
+type GeneratedTimestamp = ColumnType<Date, Date | string | undefined, Date | string>;
+type GeneratedJson = ColumnType<unknown, string | undefined, string>;
 
 export type Role = "rep" | "grower" | "supervisor" | "admin";
 export type UserStatus = "invited" | "active" | "deactivated";
@@ -14,18 +17,18 @@ export type CaseStatus = "new" | "in_review" | "decided" | "closed";
 
 interface SyncColumns {
   version: Generated<number>;
-  fieldVersions: Generated<Json>;
+  fieldVersions: GeneratedJson;
   createdBy: string | null;
   updatedBy: string | null;
-  createdAt: Generated<Timestamp>;
-  updatedAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
+  updatedAt: GeneratedTimestamp;
   deletedAt: Timestamp | null;
 }
 
 export interface RegionTable {
   id: Generated<string>;
   name: string;
-  createdAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
 }
 
 export interface AppUserTable {
@@ -37,8 +40,8 @@ export interface AppUserTable {
   passwordHash: string | null;
   status: Generated<UserStatus>;
   units: Generated<"us" | "metric">;
-  createdAt: Generated<Timestamp>;
-  updatedAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
+  updatedAt: GeneratedTimestamp;
 }
 
 export interface OneTimeTokenTable {
@@ -49,14 +52,14 @@ export interface OneTimeTokenTable {
   expiresAt: Timestamp;
   usedAt: Timestamp | null;
   createdBy: string | null;
-  createdAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
 }
 
 export interface SignInAttemptTable {
   id: Generated<string>;
   email: string;
   succeeded: boolean;
-  attemptedAt: Generated<Timestamp>;
+  attemptedAt: GeneratedTimestamp;
 }
 
 export interface AccountTable {
@@ -64,14 +67,14 @@ export interface AccountTable {
   regionId: string;
   name: string;
   locality: string | null;
-  createdAt: Generated<Timestamp>;
-  updatedAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
+  updatedAt: GeneratedTimestamp;
 }
 
 export interface AccountMemberTable {
   accountId: string;
   userId: string;
-  createdAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
 }
 
 export interface SyncCursorTable {
@@ -85,7 +88,7 @@ export interface WeatherStationTable {
   name: string;
   latitude: number;
   longitude: number;
-  createdAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
 }
 
 export interface WeatherDailyTable {
@@ -128,8 +131,8 @@ export interface ProductTable {
   containsThiosulfate: Generated<boolean>;
   active: Generated<boolean>;
   version: Generated<number>;
-  createdAt: Generated<Timestamp>;
-  updatedAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
+  updatedAt: GeneratedTimestamp;
 }
 
 export interface PlantingTable extends SyncColumns {
@@ -236,21 +239,21 @@ export interface InjuryCaseEventTable {
   actorId: string | null;
   kind: "opened" | "status" | "assigned" | "comment" | "decision" | "shared" | "reopened";
   body: string | null;
-  payload: Generated<Json>;
-  createdAt: Generated<Timestamp>;
+  payload: GeneratedJson;
+  createdAt: GeneratedTimestamp;
 }
 
 export interface SyncClientGroupTable {
   id: string;
   userId: string;
-  createdAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
 }
 
 export interface SyncClientTable {
   id: string;
   clientGroupId: string;
   lastMutationId: Generated<number>;
-  lastSeenAt: Generated<Timestamp>;
+  lastSeenAt: GeneratedTimestamp;
 }
 
 export interface SyncMutationResultTable {
@@ -259,7 +262,7 @@ export interface SyncMutationResultTable {
   name: string;
   status: "applied" | "rejected";
   reason: string | null;
-  createdAt: Generated<Timestamp>;
+  createdAt: GeneratedTimestamp;
 }
 
 export interface SyncConflictTable {
@@ -274,7 +277,7 @@ export interface SyncConflictTable {
   serverUserId: string | null;
   clientUserId: string | null;
   serverChangedAt: Timestamp | null;
-  clientReceivedAt: Generated<Timestamp>;
+  clientReceivedAt: GeneratedTimestamp;
   clientObservedAt: Timestamp | null;
   settledBy: string | null;
   settledAt: Timestamp | null;

@@ -169,7 +169,7 @@ function spawnLogged(name: string, cmd: string, args: string[], logFile: string,
   const out = openSync(logFile, "a");
   const child = spawn(cmd, args, { cwd: root, env, stdio: ["ignore", out, out] });
   child.on("exit", (code, signal) => {
-    if (code !== 0 && signal !== "SIGTERM" && signal !== "SIGINT") {
+    if (code !== 0 && code !== 143 && signal !== "SIGTERM" && signal !== "SIGINT") {
       console.error(`${name} exited (${code ?? signal}); see ${logFile}`);
     }
   });

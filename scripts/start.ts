@@ -1,39 +1,12 @@
 // `npm start`: services up, migrations, demo seed on an empty database, a build when the sources
 // changed since the last one, then the app on http://127.0.0.1:PORT. Ctrl-C stops what it started.
-import { execFileSync } from "node:child_process";
-import { existsSync, readdirSync, statSync } from "node:fs";
-import path from "node:path";
 import { env } from "@/lib/env";
 import { createDb } from "@/db/client";
 import { migrate } from "@/db/migrate";
 import { seedDemoIfEmpty } from "@/db/seed/index";
 import { DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo-users";
-import { root, serviceConfig, startApp, startServices, stopAll, type StartedService } from "./services";
-
-const SOURCES = ["app", "lib", "db", "sync", "service-worker", "public"];
-const SOURCE_FILES = ["package-lock.json", "next.config.js", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json"];
-
-function newestMtime(p: string): number {
-  if (!existsSync(p)) return 0;
-  const st = statSync(p);
-  if (!st.isDirectory()) return path.basename(p).startsWith("sw.js") ? 0 : st.mtimeMs;
-  let newest = st.mtimeMs;
-  for (const entry of readdirSync(p)) newest = Math.max(newest, newestMtime(path.join(p, entry)));
-  return newest;
-}
-
-export function buildIsStale(): boolean {
-  const buildId = path.join(root, ".next", "BUILD_ID");
-  if (!existsSync(buildId) || !existsSync(path.join(root, "public", "sw.js"))) return true;
-  const built = statSync(buildId).mtimeMs;
-  const sources = [...SOURCES, ...SOURCE_FILES].map((s) => newestMtime(path.join(root, s)));
-  return Math.max(...sources) > built;
-}
-
-export function build(childEnv: NodeJS.ProcessEnv) {
-  console.log("Building the app (sources changed since the last build)…");
-  execFileSync("npm", ["run", "build"], { cwd: root, stdio: "inherit", env: childEnv });
-}
+import { build, buildIsStale } from "./build-state";
+import { serviceConfig, startApp, startServices, stopAll, type StartedService } from "./services";
 
 async function main() {
   const cfg = serviceConfig(env);

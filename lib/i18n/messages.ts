@@ -1,0 +1,14 @@
+import admin from "./messages/en/admin.json";
+import auth from "./messages/en/auth.json";
+import common from "./messages/en/common.json";
+import home from "./messages/en/home.json";
+
+// One catalog per area, merged into namespaces; add a new area's file here.
+const catalogs = { en: { common, auth, admin, home } } as const;
+
+export type Locale = keyof typeof catalogs;
+export type Messages = (typeof catalogs)["en"];
+
+export async function loadMessages(locale: string): Promise<Messages> {
+  return catalogs[(locale in catalogs ? locale : "en") as Locale];
+}
