@@ -3,7 +3,13 @@
 import { useTranslations } from "next-intl";
 import { useEffect } from "react";
 
-export default function ErrorPage({ error, reset }: { error: Error & { digest?: string }; reset: () => void }) {
+export default function ErrorPage({
+  error,
+  reset,
+}: {
+  error: Error & { digest?: string };
+  reset: () => void;
+}) {
   const t = useTranslations("common.errors");
   useEffect(() => {
     console.error(error);

@@ -35,11 +35,17 @@ export async function parseJson<S extends z.ZodType>(req: Request, schema: S): P
   }
   const declared = Number(req.headers.get("content-length") ?? "0");
   if (declared > MAX_JSON_BYTES) {
-    return { ok: false, response: jsonError(413, `The request body is larger than ${MAX_JSON_BYTES / 1024} KB.`) };
+    return {
+      ok: false,
+      response: jsonError(413, `The request body is larger than ${MAX_JSON_BYTES / 1024} KB.`),
+    };
   }
   const text = await req.text();
   if (Buffer.byteLength(text) > MAX_JSON_BYTES) {
-    return { ok: false, response: jsonError(413, `The request body is larger than ${MAX_JSON_BYTES / 1024} KB.`) };
+    return {
+      ok: false,
+      response: jsonError(413, `The request body is larger than ${MAX_JSON_BYTES / 1024} KB.`),
+    };
   }
   let body: unknown;
   try {

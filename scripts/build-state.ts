@@ -5,7 +5,13 @@ import path from "node:path";
 import { root } from "./services";
 
 const SOURCES = ["app", "lib", "db", "sync", "service-worker", "public"];
-const SOURCE_FILES = ["package-lock.json", "next.config.js", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json"];
+const SOURCE_FILES = [
+  "package-lock.json",
+  "next.config.js",
+  "tailwind.config.ts",
+  "postcss.config.mjs",
+  "tsconfig.json",
+];
 
 function newestMtime(p: string): number {
   if (!existsSync(p)) return 0;

@@ -84,8 +84,16 @@ export async function startPostgres(cfg: ServiceConfig): Promise<StartedService>
     writeFileSync(pwFile, "postgres\n");
     if (isRoot) execFileSync("chown", ["postgres:postgres", pwFile]);
     asPostgres(`${PG_BIN}/initdb`, [
-      "-D", pgData, "-U", "postgres", `--pwfile=${pwFile}`,
-      "--auth-local=trust", "--auth-host=scram-sha-256", "-E", "UTF8", "--locale=C.UTF-8",
+      "-D",
+      pgData,
+      "-U",
+      "postgres",
+      `--pwfile=${pwFile}`,
+      "--auth-local=trust",
+      "--auth-host=scram-sha-256",
+      "-E",
+      "UTF8",
+      "--locale=C.UTF-8",
     ]);
     rmSync(pwFile);
   }
@@ -115,8 +123,15 @@ export async function startPostgres(cfg: ServiceConfig): Promise<StartedService>
   }
   try {
     asPostgres(`${PG_BIN}/pg_ctl`, [
-      "-D", pgData, "-l", logFile, "-w", "-t", "30",
-      "-o", `-p ${cfg.pgPort} -k ${sockDir} -c listen_addresses=127.0.0.1`,
+      "-D",
+      pgData,
+      "-l",
+      logFile,
+      "-w",
+      "-t",
+      "30",
+      "-o",
+      `-p ${cfg.pgPort} -k ${sockDir} -c listen_addresses=127.0.0.1`,
       "start",
     ]);
   } catch (err) {
@@ -197,7 +212,10 @@ export async function startS3Fake(cfg: ServiceConfig): Promise<StartedService> {
     const ok = await fetch(`${url}/${cfg.bucket}/health`, {
       method: "OPTIONS",
       headers: { Origin: "http://127.0.0.1", "Access-Control-Request-Method": "PUT" },
-    }).then((r) => r.ok, () => false);
+    }).then(
+      (r) => r.ok,
+      () => false,
+    );
     if (!ok) throw new Error(`Port ${cfg.s3Port} on 127.0.0.1 is busy with another program. Set S3_PORT.`);
     console.log(`S3 fake already running on ${url}; reusing it.`);
     return { name: "S3 fake", url, startedHere: false, stop: async () => {} };
@@ -233,9 +251,16 @@ export async function startMailFake(cfg: ServiceConfig): Promise<StartedService>
     "SMTP fake",
     path.join(root, "node_modules", ".bin", "maildev"),
     [
-      "--ip", "127.0.0.1", "--web-ip", "127.0.0.1",
-      "--smtp", String(cfg.smtpPort), "--web", String(cfg.mailWebPort),
-      "--mail-directory", mailDir,
+      "--ip",
+      "127.0.0.1",
+      "--web-ip",
+      "127.0.0.1",
+      "--smtp",
+      String(cfg.smtpPort),
+      "--web",
+      String(cfg.mailWebPort),
+      "--mail-directory",
+      mailDir,
     ],
     path.join(cfg.dataDir, "logs", "mail.log"),
     process.env,
@@ -253,7 +278,14 @@ export async function startApp(
   if (await portInUse(port)) {
     throw new Error(`Port ${port} on 127.0.0.1 is busy: is Trenchbook already running? Set PORT to another.`);
   }
-  const args = [path.join(root, "node_modules", "next", "dist", "bin", "next"), "start", "-H", "127.0.0.1", "-p", String(port)];
+  const args = [
+    path.join(root, "node_modules", "next", "dist", "bin", "next"),
+    "start",
+    "-H",
+    "127.0.0.1",
+    "-p",
+    String(port),
+  ];
   const child = logFile
     ? spawnLogged("Next.js", process.execPath, args, logFile, env)
     : spawn(process.execPath, args, { cwd: root, env, stdio: "inherit" });

@@ -62,14 +62,27 @@ try {
     await db.destroy();
   }
   if (buildIsStale()) build({ ...process.env, NODE_ENV: "production" });
-  services.push(await startApp(env.PORT, { ...process.env, NODE_ENV: "production" }, path.join(dataDir, "logs", "app.log")));
+  services.push(
+    await startApp(
+      env.PORT,
+      { ...process.env, NODE_ENV: "production" },
+      path.join(dataDir, "logs", "app.log"),
+    ),
+  );
 
   if (runVitest) {
     const out = path.join(resultsDir, "vitest.json");
     rmSync(out, { force: true });
     spawnSync(
       "npx",
-      ["vitest", "run", "--reporter=default", "--reporter=json", `--outputFile.json=${out}`, ...vitestFilters],
+      [
+        "vitest",
+        "run",
+        "--reporter=default",
+        "--reporter=json",
+        `--outputFile.json=${out}`,
+        ...vitestFilters,
+      ],
       { cwd: root, stdio: "inherit", env: process.env },
     );
     if (existsSync(out)) {
@@ -123,5 +136,7 @@ function countFilesThatFailedToLoad(r: { testResults: { status: string; assertio
 }
 
 if (setupFailed) totals.failed += 1;
-console.log(`\n${totals.passed} passed, ${totals.failed} failed${totals.skipped ? `, ${totals.skipped} skipped` : ""}`);
+console.log(
+  `\n${totals.passed} passed, ${totals.failed} failed${totals.skipped ? `, ${totals.skipped} skipped` : ""}`,
+);
 process.exit(totals.failed > 0 || totals.passed === 0 ? 1 : 0);

@@ -17,6 +17,11 @@ export default async function OfficeLayout({ children }: { children: React.React
             <Link href="/" className="rounded px-3 py-2 font-semibold hover:bg-sprout-700">
               {t("nav.home")}
             </Link>
+            {user.role !== "grower" ? (
+              <Link href="/field/calculator" className="rounded px-3 py-2 font-semibold hover:bg-sprout-700">
+                {t("nav.calculator")}
+              </Link>
+            ) : null}
             {user.role === "admin" ? (
               <Link href="/admin/users" className="rounded px-3 py-2 font-semibold hover:bg-sprout-700">
                 {t("nav.admin")}

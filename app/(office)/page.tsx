@@ -83,17 +83,29 @@ async function RegionTable({ accounts }: { accounts: AccountSummary[] }) {
       <table className="w-full text-left">
         <thead className="bg-soil-100">
           <tr>
-            <th scope="col" className="p-3">{t("account")}</th>
-            <th scope="col" className="p-3">{t("locality")}</th>
-            <th scope="col" className="p-3">{t("reps")}</th>
-            <th scope="col" className="p-3 text-right">{t("fields")}</th>
-            <th scope="col" className="p-3 text-right">{t("digs")}</th>
+            <th scope="col" className="p-3">
+              {t("account")}
+            </th>
+            <th scope="col" className="p-3">
+              {t("locality")}
+            </th>
+            <th scope="col" className="p-3">
+              {t("reps")}
+            </th>
+            <th scope="col" className="p-3 text-right">
+              {t("fields")}
+            </th>
+            <th scope="col" className="p-3 text-right">
+              {t("digs")}
+            </th>
           </tr>
         </thead>
         <tbody>
           {accounts.map((a) => (
             <tr key={a.id} className="border-t border-soil-200">
-              <th scope="row" className="p-3 font-semibold">{a.name}</th>
+              <th scope="row" className="p-3 font-semibold">
+                {a.name}
+              </th>
               <td className="p-3">{a.locality}</td>
               <td className="p-3">{a.reps.join(", ")}</td>
               <td className="p-3 text-right">{a.fieldCount}</td>

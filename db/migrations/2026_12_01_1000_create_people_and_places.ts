@@ -39,7 +39,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("created_by", "uuid", (c) => c.references("app_user.id").onDelete("set null"))
     .addColumn("created_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex("one_time_token_user_id_index").on("one_time_token").column("user_id").execute();
+  await db.schema
+    .createIndex("one_time_token_user_id_index")
+    .on("one_time_token")
+    .column("user_id")
+    .execute();
 
   await db.schema
     .createTable("sign_in_attempt")

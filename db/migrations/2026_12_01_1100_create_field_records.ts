@@ -128,7 +128,11 @@ export async function up(db: Kysely<any>): Promise<void> {
       .addColumn("intended_below_in", "double precision")
       .addColumn("notes", "text"),
   ).execute();
-  await db.schema.createIndex("fertilizer_pass_field_id_index").on("fertilizer_pass").column("field_id").execute();
+  await db.schema
+    .createIndex("fertilizer_pass_field_id_index")
+    .on("fertilizer_pass")
+    .column("field_id")
+    .execute();
 
   await withSyncColumns(
     db.schema
@@ -173,7 +177,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       .addColumn("nodal_whorls", "integer", (c) => c.check(sql`nodal_whorls between 0 and 12`))
       .addColumn("nodal_count", "integer", (c) => c.check(sql`nodal_count between 0 and 80`))
       .addColumn("longest_nodal_in", "double precision")
-      .addColumn("seminal_injury", "text", (c) => c.notNull().defaultTo("none").check(injury("seminal_injury")))
+      .addColumn("seminal_injury", "text", (c) =>
+        c.notNull().defaultTo("none").check(injury("seminal_injury")),
+      )
       .addColumn("nodal_injury", "text", (c) => c.notNull().defaultTo("none").check(injury("nodal_injury")))
       .addColumn("findings", sql`text[]`, (c) => c.notNull().defaultTo(sql`'{}'::text[]`))
       .addColumn("band_beside_in", "double precision")
@@ -211,7 +217,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       .addColumn("status", "text", (c) =>
         c.notNull().defaultTo("new").check(sql`status in ('new','in_review','decided','closed')`),
       )
-      .addColumn("severity", "text", (c) => c.notNull().check(sql`severity in ('caution','warning','critical')`))
+      .addColumn("severity", "text", (c) =>
+        c.notNull().check(sql`severity in ('caution','warning','critical')`),
+      )
       .addColumn("decision", "text", (c) =>
         c.check(sql`decision in ('injury_confirmed','not_injury','inconclusive')`),
       )
@@ -234,7 +242,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("payload", "jsonb", (c) => c.notNull().defaultTo(sql`'{}'::jsonb`))
     .addColumn("created_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex("injury_case_event_case_id_index").on("injury_case_event").column("case_id").execute();
+  await db.schema
+    .createIndex("injury_case_event_case_id_index")
+    .on("injury_case_event")
+    .column("case_id")
+    .execute();
   // The audit trail is append-only for every role, including the application's own.
   await sql`
     create function injury_case_event_append_only() returns trigger language plpgsql as $$
@@ -294,7 +306,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("settled_value", "jsonb")
     .addColumn("version", "bigint", (c) => c.notNull().defaultTo(0))
     .execute();
-  await db.schema.createIndex("sync_conflict_record_id_index").on("sync_conflict").column("record_id").execute();
+  await db.schema
+    .createIndex("sync_conflict_record_id_index")
+    .on("sync_conflict")
+    .column("record_id")
+    .execute();
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

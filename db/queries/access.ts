@@ -31,7 +31,12 @@ export async function findAccountAccess(actor: Actor, accountId: string): Promis
     .where("account.id", "=", accountId)
     .executeTakeFirst();
   if (!row) return undefined;
-  return { accountId: row.id, regionId: row.regionId, servedByActor: Boolean(row.served), grownByActor: Boolean(row.grown) };
+  return {
+    accountId: row.id,
+    regionId: row.regionId,
+    servedByActor: Boolean(row.served),
+    grownByActor: Boolean(row.grown),
+  };
 }
 
 // The same scope rule as `inScope`, as a filter on a query that has the account table joined.
@@ -46,7 +51,10 @@ export function accountVisibleTo(actor: Actor) {
         return eb(
           "account.id",
           "in",
-          eb.selectFrom("accountRep").select("accountRep.accountId").where("accountRep.userId", "=", actor.id),
+          eb
+            .selectFrom("accountRep")
+            .select("accountRep.accountId")
+            .where("accountRep.userId", "=", actor.id),
         );
       case "grower":
         return eb(

@@ -69,3 +69,45 @@ export async function listAccountSummaries(actor: Actor): Promise<AccountSummary
     growers: r.growers ?? [],
   }));
 }
+
+export interface AccountDetail {
+  id: string;
+  regionId: string;
+  regionName: string;
+  name: string;
+  locality: string | null;
+  createdAt: Date;
+  updatedAt: Date;
+}
+
+// One account by id, whoever asks; callers check `can` with its access.
+export async function findAccount(id: string): Promise<AccountDetail | undefined> {
+  return db
+    .selectFrom("account")
+    .innerJoin("region", "region.id", "account.regionId")
+    .select([
+      "account.id",
+      "account.regionId",
+      "region.name as regionName",
+      "account.name",
+      "account.locality",
+      "account.createdAt",
+      "account.updatedAt",
+    ])
+    .where("account.id", "=", id)
+    .executeTakeFirst();
+}
+
+// Renames an account or changes its locality; undefined when there is no such account.
+export async function updateAccountDetails(
+  id: string,
+  patch: { name?: string; locality?: string | null },
+): Promise<AccountDetail | undefined> {
+  const updated = await db
+    .updateTable("account")
+    .set({ ...patch, updatedAt: sql`now()` })
+    .where("id", "=", id)
+    .returning("id")
+    .executeTakeFirst();
+  return updated ? findAccount(id) : undefined;
+}

@@ -36,7 +36,7 @@ export const authOptions: NextAuthOptions = {
 
         const user = await findUserByEmail(email);
         const ok = await verifyPassword(password, user?.passwordHash ?? DUMMY_HASH);
-        if (!user || !user.passwordHash || !ok) {
+        if (!user?.passwordHash || !ok) {
           await recordSignInAttempt(email, false);
           throw new Error("WrongCredentials");
         }

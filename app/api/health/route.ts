@@ -8,7 +8,10 @@ export const dynamic = "force-dynamic";
 
 async function probe(fn: () => Promise<unknown>): Promise<{ up: boolean; error?: string }> {
   try {
-    await Promise.race([fn(), new Promise((_, reject) => setTimeout(() => reject(new Error("timed out")), 3000))]);
+    await Promise.race([
+      fn(),
+      new Promise((_, reject) => setTimeout(() => reject(new Error("timed out")), 3000)),
+    ]);
     return { up: true };
   } catch (err) {
     return { up: false, error: err instanceof Error ? err.message : String(err) };

@@ -1,0 +1,29 @@
+// Browser-side helpers for Playwright specs.
+import { expect, type Page } from "@playwright/test";
+import { DEMO_PASSWORD, DEMO_USERS } from "../../db/seed/demo-users";
+
+export async function signInAs(page: Page, key: string) {
+  const user = DEMO_USERS.find((u) => u.key === key);
+  if (!user) throw new Error(`No demo user ${key}`);
+  await page.goto("/sign-in");
+  await page.getByLabel("E-mail").fill(user.email);
+  await page.getByLabel("Password").fill(DEMO_PASSWORD);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page.getByText(`Signed in as ${user.name}`)).toBeVisible();
+  return user;
+}
+
+// Waits until the service worker controls the page and has stored the field pages.
+export async function waitForOfflineReady(page: Page, path: string) {
+  await page.waitForFunction(() => navigator.serviceWorker?.controller !== null, null, { timeout: 20_000 });
+  await expect
+    .poll(
+      () =>
+        page.evaluate(async (p) => {
+          const cache = await caches.open("field-pages");
+          return Boolean(await cache.match(p));
+        }, path),
+      { timeout: 20_000 },
+    )
+    .toBe(true);
+}
