@@ -18,7 +18,7 @@ describe("dailyGdd", () => {
     expect(dailyGdd(104, 95)).toBeCloseTo(36, 10);
   });
 
-  it(`90/55 °F gives 20.5, not the 17.5 one trade magazine prints — arithmetic on ${SRC.purdueHeatUnits}`, () => {
+  it(`90/55 °F gives 20.5 by the method — arithmetic on ${SRC.purdueHeatUnits}`, () => {
     expect(dailyGdd(90, 55)).toBeCloseTo(20.5, 10);
   });
 
