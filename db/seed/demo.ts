@@ -3,11 +3,24 @@ import type { Kysely } from "kysely";
 import { hashPassword } from "@/lib/auth/password";
 import type { Database } from "../schema";
 import { DEMO_PASSWORD, DEMO_REGION, DEMO_USERS } from "./demo-users";
+import { seedDigs } from "./digs";
+import { type AccountRef, seedFields } from "./fields";
+import { SEED_VERSION } from "./ids";
+import { seedPlantingsAndPasses } from "./plantings";
+import { seedProducts } from "./products";
+import { seedWeather } from "./weather";
 
 // The invented demo scenario: one irrigated valley, two reps, a supervisor, an admin and four
-// grower accounts.
+// grower accounts with their fields, plantings, fertilizer passes, a season of weather, root digs,
+// illustration photos and the injury cases the digs raise. Deterministic: the same rows every time.
+// Runs inside the caller's transaction; only the photo bytes go to the bucket outside it, before the
+// rows that point at them.
 export async function seedDemo(db: Kysely<Database>) {
-  const region = await db.insertInto("region").values({ name: DEMO_REGION }).returning("id").executeTakeFirstOrThrow();
+  const region = await db
+    .insertInto("region")
+    .values({ name: DEMO_REGION })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   await db.insertInto("region").values({ name: "Upper Mesa" }).execute();
   const hash = await hashPassword(DEMO_PASSWORD);
   const users: Record<string, string> = {};
@@ -32,6 +45,7 @@ export async function seedDemo(db: Kysely<Database>) {
     { name: "Cottonwood Bend Dairy", locality: "South canal", rep: "rep2", grower: "grower3" },
     { name: "Dry Wash Partners", locality: "East fan", rep: "rep2", grower: "grower4" },
   ];
+  const accountRefs = new Map<string, AccountRef>();
   for (const a of accounts) {
     const acc = await db
       .insertInto("account")
@@ -40,6 +54,13 @@ export async function seedDemo(db: Kysely<Database>) {
       .executeTakeFirstOrThrow();
     await db.insertInto("accountRep").values({ accountId: acc.id, userId: users[a.rep]! }).execute();
     await db.insertInto("accountGrower").values({ accountId: acc.id, userId: users[a.grower]! }).execute();
+    accountRefs.set(a.name, { id: acc.id, repId: users[a.rep]! });
   }
-  await db.insertInto("syncCursor").values({ regionId: region.id }).execute();
+
+  const productIds = await seedProducts(db);
+  const { stationId, records } = await seedWeather(db, region.id);
+  const fields = await seedFields(db, accountRefs, stationId);
+  const { plantings, passes } = await seedPlantingsAndPasses(db, fields, productIds);
+  await seedDigs(db, { plantings, passes, weather: records });
+  await db.insertInto("syncCursor").values({ regionId: region.id, version: SEED_VERSION }).execute();
 }
