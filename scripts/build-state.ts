@@ -1,6 +1,6 @@
 // Whether the production build is older than the sources, and the build itself.
 import { execFileSync } from "node:child_process";
-import { existsSync, readdirSync, statSync } from "node:fs";
+import { existsSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { root } from "./services";
 
@@ -22,16 +22,21 @@ function newestMtime(p: string): number {
   return newest;
 }
 
+// The build records when it started; a source saved after that moment makes it stale, even one saved
+// while the build was running.
+const STAMP = path.join(root, ".next", "trenchbook-build-started");
+
 export function buildIsStale(): boolean {
-  // public/sw.js is the last thing `npm run build` writes.
-  const sw = path.join(root, "public", "sw.js");
-  if (!existsSync(path.join(root, ".next", "BUILD_ID")) || !existsSync(sw)) return true;
-  const built = statSync(sw).mtimeMs;
+  if (!existsSync(STAMP) || !existsSync(path.join(root, "public", "sw.js"))) return true;
+  const started = Number(readFileSync(STAMP, "utf8"));
   const sources = [...SOURCES, ...SOURCE_FILES].map((s) => newestMtime(path.join(root, s)));
-  return Math.max(...sources) > built;
+  return !(started > 0) || Math.max(...sources) >= started;
 }
 
 export function build(childEnv: NodeJS.ProcessEnv) {
   console.log("Building the app (sources changed since the last build)…");
+  const started = Date.now();
+  rmSync(STAMP, { force: true });
   execFileSync("npm", ["run", "build"], { cwd: root, stdio: "inherit", env: childEnv });
+  writeFileSync(STAMP, String(started));
 }

@@ -79,7 +79,12 @@ async function AccountCards({ accounts, showGrowers }: { accounts: AccountSummar
 async function RegionTable({ accounts }: { accounts: AccountSummary[] }) {
   const t = await getTranslations("home.table");
   return (
-    <div className="overflow-x-auto rounded-card border border-soil-200 bg-white">
+    <section
+      className="overflow-x-auto rounded-card border border-soil-200 bg-white"
+      aria-label={t("account")}
+      // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrollable table must be reachable by keyboard
+      tabIndex={0}
+    >
       <table className="w-full text-left">
         <thead className="bg-soil-100">
           <tr>
@@ -114,6 +119,6 @@ async function RegionTable({ accounts }: { accounts: AccountSummary[] }) {
           ))}
         </tbody>
       </table>
-    </div>
+    </section>
   );
 }

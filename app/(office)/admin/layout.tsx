@@ -15,6 +15,7 @@ export default async function AdminLayout({ children }: { children: React.ReactN
           { href: "/admin/users", label: t("users") },
           { href: "/admin/regions", label: t("regions") },
           { href: "/admin/accounts", label: t("accounts") },
+          { href: "/admin/products", label: t("products") },
         ]}
       />
       {children}

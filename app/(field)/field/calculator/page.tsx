@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { getTranslations } from "next-intl/server";
-import { listCatalogProducts } from "@/db/queries/catalog";
+import { listCatalogProducts } from "@/db/queries/products";
 import { requirePageUser } from "@/lib/auth/session";
 import { Calculator } from "./_components/calculator";
 

@@ -2,7 +2,7 @@
 
 import { useTranslations } from "next-intl";
 import { useState } from "react";
-import type { CatalogProduct } from "@/db/queries/catalog";
+import type { CatalogProduct } from "@/db/queries/products";
 import { FertilizerCalculator } from "./fertilizer-calculator";
 import { GddCalculator } from "./gdd-calculator";
 import { NitrogenCalculator } from "./nitrogen-calculator";

@@ -14,7 +14,7 @@ import {
 } from "@/lib/agronomy";
 import { useTranslations } from "next-intl";
 import { useState } from "react";
-import type { CatalogProduct } from "@/db/queries/catalog";
+import type { CatalogProduct } from "@/db/queries/products";
 import { compute, fmt, NumberField, parseNumberEntry, ResultPanel, SelectField } from "./form-fields";
 
 const RATE = { min: 0, max: 500, unit: "per acre" } as const;
