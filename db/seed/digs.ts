@@ -5,10 +5,8 @@ import {
   assessDig,
   type DailyTemperature,
   type DigAssessment,
-  type DugPlantRoots,
   dateForLeafStage,
   expectedNodalRoots,
-  type FertilizerPass,
   type FertilizerProduct,
   findProduct,
   type InjuryScore,
@@ -18,6 +16,7 @@ import {
   seedPlacedCheck,
   stageOnDate,
 } from "@/lib/agronomy";
+import { type AssessmentPlant, assessmentInputFor } from "@/lib/digs/assessment";
 import type { Database, NewDigSite, NewDugPlant, NewPhoto } from "../schema";
 import { DEMO_GRID_ORIGIN, type SeededField } from "./fields";
 import { gridToLonLat, insideCorners } from "./geo";
@@ -227,66 +226,60 @@ function draftPlant(
   return plant;
 }
 
-function roots(p: PlantDraft): DugPlantRoots {
+/** A drafted plant as the rep would record it (the dug_plant row's measurements). */
+function recordedPlant(p: PlantDraft): AssessmentPlant {
   return {
-    seminalRootScore: p.seminalScore,
-    nodalWhorls: p.nodalWhorls,
-    nodalRootCount: p.nodalCount,
-    longestNodalRootIn: p.longestNodalIn,
+    leafStage: stageName(p.leafCollars),
+    seedingDepthIn: p.seedingDepthIn,
     crownDepthIn: p.crownDepthIn,
     mesocotyl: p.mesocotyl,
+    seminalScore: p.seminalScore,
+    nodalWhorls: p.nodalWhorls,
+    nodalCount: p.nodalCount,
+    longestNodalIn: p.longestNodalIn,
     seminalInjury: p.seminalInjury,
     nodalInjury: p.nodalInjury,
-    burnSeen: p.findings.includes("band_burn"),
+    findings: p.findings,
+    bandBesideIn: p.band?.besideIn ?? null,
+    bandBelowIn: p.band?.belowIn ?? null,
   };
 }
 
-const mean = (xs: readonly number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
-
 /**
- * The agronomy core's assessment of a dig: the site's stage is the median of the plants' leaf collars;
- * the passes are the field's passes for this planting (or for the whole field) applied on or before
- * the dig, each audited with the band offsets measured on the plants (their mean) when it is a banded
- * pass; seeding depth is the plants' mean.
+ * The agronomy core's assessment of a dig, built as the phone and the server build it
+ * (lib/digs/assessment.ts): the site's stage is the median of the plants' leaf stages; the passes are
+ * the field's passes for this planting (or for the whole field) applied on or before the dig's day, each
+ * banded pass audited with the mean band offsets measured on the plants; seeding depth is the plants' mean.
  */
 export function assessDemoDig(
   plants: readonly PlantDraft[],
   passes: readonly { pass: SeededPass; product: FertilizerProduct }[],
   planting: SeededPlanting,
+  dugAt: string,
 ): DigAssessment {
-  const sorted = plants.map((p) => p.leafCollars).sort((a, b) => a - b);
-  const siteCollars = sorted[Math.floor((sorted.length - 1) / 2)] ?? 0;
-  const bands = plants.flatMap((p) => (p.band ? [p.band] : []));
-  const measured =
-    bands.length > 0
-      ? {
-          besideIn: round(mean(bands.map((b) => b.besideIn)), 2),
-          belowIn: round(mean(bands.map((b) => b.belowIn)), 2),
-        }
-      : null;
-  const audited: FertilizerPass[] = passes.map(({ pass, product }) => {
-    const banded = pass.placement === "band_2x2" || pass.placement === "side_dress";
-    return {
-      placement: pass.placement,
-      product,
-      rate: pass.rate,
-      rateUnit: pass.rateUnit,
-      rowSpacingIn: planting.rowSpacingIn,
-      soil: planting.fieldRow.soil,
-      intended:
-        pass.intendedBesideIn !== null && pass.intendedBelowIn !== null
-          ? { besideIn: pass.intendedBesideIn, belowIn: pass.intendedBelowIn }
-          : null,
-      measured: banded ? measured : null,
-    };
-  });
-  return assessDig({
-    stage: stageName(siteCollars),
-    plants: plants.map(roots),
-    passes: audited,
-    seedingDepthIn: round(mean(plants.map((p) => p.seedingDepthIn)), 2),
-  });
+  const fieldId = planting.fieldRow.id;
+  return assessDig(
+    assessmentInputFor(
+      { fieldId, plantingId: planting.id, dugAt },
+      plants.map(recordedPlant),
+      { id: planting.id, rowSpacingIn: planting.rowSpacingIn, soilTexture: planting.fieldRow.soil },
+      passes.map(({ pass }) => ({
+        fieldId,
+        plantingId: pass.plantingId,
+        productId: pass.productId,
+        appliedOn: pass.appliedOn,
+        rate: pass.rate,
+        rateUnit: pass.rateUnit,
+        placement: pass.placement,
+        intendedBesideIn: pass.intendedBesideIn,
+        intendedBelowIn: pass.intendedBelowIn,
+      })),
+      passes.map(({ pass, product }) => ({ ...product, id: pass.productId })),
+    ),
+  );
 }
+
+const mean = (xs: readonly number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
 
 function recommendation(
   profile: Profile,
@@ -448,9 +441,8 @@ export async function seedDigs(
     const later = addDays(date, r.int(0, 2));
     if (stageOnDate(ctx.weather, planting.plantedOn, later).leafCollars === d.collars) date = later;
     const hour = r.int(8, 15);
-    const dugAt = new Date(
-      `${date}T${String(hour).padStart(2, "0")}:${String(r.int(0, 59)).padStart(2, "0")}:00-07:00`,
-    );
+    const dugAtLocal = `${date}T${String(hour).padStart(2, "0")}:${String(r.int(0, 59)).padStart(2, "0")}:00-07:00`;
+    const dugAt = new Date(dugAtLocal);
 
     const passes = ctx.passes
       .filter(
@@ -472,7 +464,7 @@ export async function seedDigs(
       // One plant of an affected dig is often spared, as in a real row.
       draftPlant(r, d.profile, d.collars, planting, bandFound, i < 3 || r.next() < 0.5),
     );
-    const assessment = assessDemoDig(plants, passes, planting);
+    const assessment = assessDemoDig(plants, passes, planting, dugAtLocal);
     const irrigatedYet = field.firstIrrigationOn !== null && field.firstIrrigationOn <= date;
     const weather = weatherByDay.get(date);
     const [xFt, yFt] = digPoint(r, field, planting.strip);
