@@ -1,6 +1,5 @@
 import "server-only";
 import { sql } from "kysely";
-import { hashPassword } from "@/lib/auth/password";
 import { type Actor, can } from "@/lib/auth/permissions";
 import type { InvitationCreate } from "@/lib/auth/schemas";
 import { env } from "@/lib/env";
@@ -8,15 +7,7 @@ import { invitationMail } from "@/lib/mail/templates";
 import { sendMail } from "@/lib/mail/transport";
 import { db } from "../client";
 import type { Role } from "../schema";
-import {
-  consumeToken,
-  explainRefusal,
-  inspectToken,
-  issueToken,
-  retireTokens,
-  TokenRefused,
-  type UnusableToken,
-} from "./one-time-tokens";
+import { issueToken, type RedeemResult, redeemTokenWithPassword } from "./one-time-tokens";
 
 export interface Invitation {
   userId: string;
@@ -176,34 +167,11 @@ export async function createInvitation(
   }
 }
 
-export type AcceptResult = { ok: true; email: string } | { ok: false; reason: UnusableToken };
+export type AcceptResult = RedeemResult;
 
 // Sets the invitee's password and activates the sign-in, in one transaction with using up the link.
-export async function acceptInvitation(token: string, password: string): Promise<AcceptResult> {
-  // Refuse a dead link before spending a bcrypt hash on it.
-  const before = await inspectToken(token, "invite", "invited");
-  if (before.state !== "valid") return { ok: false, reason: before.state };
-  const passwordHash = await hashPassword(password);
-  try {
-    const email = await db.transaction().execute(async (trx) => {
-      const userId = await consumeToken(trx, token, "invite");
-      if (!userId) throw new TokenRefused(await explainRefusal(token, "invite", "invited"));
-      const user = await trx
-        .updateTable("appUser")
-        .set({ passwordHash, status: "active", updatedAt: sql<Date>`now()` })
-        .where("id", "=", userId)
-        .where("status", "=", "invited")
-        .returning("email")
-        .executeTakeFirst();
-      if (!user) throw new TokenRefused("invalid");
-      await retireTokens(trx, userId, "invite");
-      return user.email;
-    });
-    return { ok: true, email };
-  } catch (err) {
-    if (err instanceof TokenRefused) return { ok: false, reason: err.reason };
-    throw err;
-  }
+export function acceptInvitation(token: string, password: string): Promise<AcceptResult> {
+  return redeemTokenWithPassword(token, password, "invite", "invited");
 }
 
 export interface InvitationChoices {

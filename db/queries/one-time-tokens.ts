@@ -1,6 +1,7 @@
 import "server-only";
 import { createHash, randomBytes } from "node:crypto";
 import { type Kysely, sql, type Transaction } from "kysely";
+import { hashPassword } from "@/lib/auth/password";
 import { db } from "../client";
 import type { Database, OneTimeTokenTable, Role } from "../schema";
 
@@ -129,4 +130,43 @@ export async function explainRefusal(token: string, purpose: TokenPurpose, userS
   const found = await inspectToken(token, purpose, userStatus);
   // Valid now but refused a moment ago means a concurrent use won the race.
   return found.state === "valid" ? "used" : found.state;
+}
+
+export type RedeemResult = { ok: true; email: string } | { ok: false; reason: UnusableToken };
+
+// Uses up a link and sets the holder's new password in one transaction: the holder must still have
+// `userStatus`; `activate` also turns an invited sign-in active; `afterwards` runs in the same
+// transaction. Two concurrent uses of one link: exactly one succeeds.
+export async function redeemTokenWithPassword(
+  token: string,
+  password: string,
+  purpose: TokenPurpose,
+  userStatus: "invited" | "active",
+  afterwards?: (trx: Transaction<Database>, user: { id: string; email: string }) => Promise<void>,
+): Promise<RedeemResult> {
+  // Refuse a dead link before spending a bcrypt hash on it.
+  const before = await inspectToken(token, purpose, userStatus);
+  if (before.state !== "valid") return { ok: false, reason: before.state };
+  const passwordHash = await hashPassword(password);
+  try {
+    const email = await db.transaction().execute(async (trx) => {
+      const userId = await consumeToken(trx, token, purpose);
+      if (!userId) throw new TokenRefused(await explainRefusal(token, purpose, userStatus));
+      const user = await trx
+        .updateTable("appUser")
+        .set({ passwordHash, status: "active", updatedAt: sql<Date>`now()` })
+        .where("id", "=", userId)
+        .where("status", "=", userStatus)
+        .returning(["id", "email"])
+        .executeTakeFirst();
+      if (!user) throw new TokenRefused("invalid");
+      await retireTokens(trx, userId, purpose);
+      await afterwards?.(trx, user);
+      return user.email;
+    });
+    return { ok: true, email };
+  } catch (err) {
+    if (err instanceof TokenRefused) return { ok: false, reason: err.reason };
+    throw err;
+  }
 }

@@ -1,17 +1,8 @@
 import "server-only";
 import { sql } from "kysely";
-import { hashPassword } from "@/lib/auth/password";
 import { env } from "@/lib/env";
 import { db } from "../client";
-import {
-  consumeToken,
-  explainRefusal,
-  inspectToken,
-  issueToken,
-  retireTokens,
-  TokenRefused,
-  type UnusableToken,
-} from "./one-time-tokens";
+import { issueToken, type RedeemResult, redeemTokenWithPassword } from "./one-time-tokens";
 
 // At most this many reset e-mails per sign-in per hour, so the form cannot be used to flood an inbox.
 export const RESET_REQUESTS_PER_HOUR = 5;
@@ -47,37 +38,16 @@ export async function requestPasswordReset(email: string): Promise<ResetRequest 
   });
 }
 
-export type ResetResult = { ok: true; email: string } | { ok: false; reason: UnusableToken };
+export type ResetResult = RedeemResult;
 
 // Replaces the password of an active sign-in and uses up the link, in one transaction. Earlier
 // failed sign-ins of the address are forgiven: the throttle's own message points here.
-export async function completePasswordReset(token: string, password: string): Promise<ResetResult> {
-  const before = await inspectToken(token, "password_reset", "active");
-  if (before.state !== "valid") return { ok: false, reason: before.state };
-  const passwordHash = await hashPassword(password);
-  try {
-    const email = await db.transaction().execute(async (trx) => {
-      const userId = await consumeToken(trx, token, "password_reset");
-      if (!userId) throw new TokenRefused(await explainRefusal(token, "password_reset", "active"));
-      const user = await trx
-        .updateTable("appUser")
-        .set({ passwordHash, updatedAt: sql<Date>`now()` })
-        .where("id", "=", userId)
-        .where("status", "=", "active")
-        .returning("email")
-        .executeTakeFirst();
-      if (!user) throw new TokenRefused("invalid");
-      await retireTokens(trx, userId, "password_reset");
-      await trx
-        .deleteFrom("signInAttempt")
-        .where("email", "=", user.email.toLowerCase())
-        .where("succeeded", "=", false)
-        .execute();
-      return user.email;
-    });
-    return { ok: true, email };
-  } catch (err) {
-    if (err instanceof TokenRefused) return { ok: false, reason: err.reason };
-    throw err;
-  }
+export function completePasswordReset(token: string, password: string): Promise<ResetResult> {
+  return redeemTokenWithPassword(token, password, "password_reset", "active", async (trx, user) => {
+    await trx
+      .deleteFrom("signInAttempt")
+      .where("email", "=", user.email.toLowerCase())
+      .where("succeeded", "=", false)
+      .execute();
+  });
 }
