@@ -181,6 +181,8 @@ export interface DigSiteTable extends SyncColumns {
   notes: string | null;
   rootIndex: number | null;
   assessment: Json | null;
+  // Last change of each device-edited field (sync/server/merge.ts).
+  fieldChanges: GeneratedJson;
 }
 
 export interface DugPlantTable extends SyncColumns {
@@ -202,6 +204,7 @@ export interface DugPlantTable extends SyncColumns {
   bandBelowIn: number | null;
   notes: string | null;
   rootIndex: number | null;
+  fieldChanges: GeneratedJson;
 }
 
 export interface PhotoTable extends SyncColumns {
@@ -218,6 +221,14 @@ export interface PhotoTable extends SyncColumns {
   objectKey: string;
   confirmedAt: Timestamp | null;
   isIllustration: Generated<boolean>;
+  fieldChanges: GeneratedJson;
+}
+
+// A photo object verified in the bucket (size and SHA-256), keyed by its hash.
+export interface PhotoObjectTable {
+  sha256: string;
+  byteSize: number;
+  confirmedAt: GeneratedTimestamp;
 }
 
 export interface InjuryCaseTable extends SyncColumns {
@@ -303,6 +314,7 @@ export interface Database {
   digSite: DigSiteTable;
   dugPlant: DugPlantTable;
   photo: PhotoTable;
+  photoObject: PhotoObjectTable;
   injuryCase: InjuryCaseTable;
   injuryCaseEvent: InjuryCaseEventTable;
   syncClientGroup: SyncClientGroupTable;
@@ -334,6 +346,8 @@ export type DugPlant = Selectable<DugPlantTable>;
 export type NewDugPlant = Insertable<DugPlantTable>;
 export type Photo = Selectable<PhotoTable>;
 export type NewPhoto = Insertable<PhotoTable>;
+export type PhotoObject = Selectable<PhotoObjectTable>;
+export type SyncConflict = Selectable<SyncConflictTable>;
 export type InjuryCase = Selectable<InjuryCaseTable>;
 export type InjuryCaseEvent = Selectable<InjuryCaseEventTable>;
 export type WeatherDaily = Selectable<WeatherDailyTable>;

@@ -28,23 +28,27 @@ export function zodIssues(error: z.ZodError): Issue[] {
 
 type Parsed<T> = { ok: true; data: T } | { ok: false; response: NextResponse };
 
-export async function parseJson<S extends z.ZodType>(req: Request, schema: S): Promise<Parsed<z.infer<S>>> {
+export async function parseJson<S extends z.ZodType>(
+  req: Request,
+  schema: S,
+  maxBytes = MAX_JSON_BYTES,
+): Promise<Parsed<z.infer<S>>> {
   const type = req.headers.get("content-type") ?? "";
   if (!type.includes("application/json")) {
     return { ok: false, response: jsonError(415, "Send the body as application/json.") };
   }
   const declared = Number(req.headers.get("content-length") ?? "0");
-  if (declared > MAX_JSON_BYTES) {
+  if (declared > maxBytes) {
     return {
       ok: false,
-      response: jsonError(413, `The request body is larger than ${MAX_JSON_BYTES / 1024} KB.`),
+      response: jsonError(413, `The request body is larger than ${maxBytes / 1024} KB.`),
     };
   }
   const text = await req.text();
-  if (Buffer.byteLength(text) > MAX_JSON_BYTES) {
+  if (Buffer.byteLength(text) > maxBytes) {
     return {
       ok: false,
-      response: jsonError(413, `The request body is larger than ${MAX_JSON_BYTES / 1024} KB.`),
+      response: jsonError(413, `The request body is larger than ${maxBytes / 1024} KB.`),
     };
   }
   let body: unknown;

@@ -144,6 +144,28 @@ export const pushRequestSchema = z.strictObject({
 });
 export type PushRequest = z.infer<typeof pushRequestSchema>;
 
+// The answer to a push (sync/server/push.ts has the whole contract). lastMutationId is the highest id
+// the server has applied or refused for this client: the device drops outbox entries up to it. Each
+// mutation of the request has a result; `duplicate` marks one an earlier push already settled.
+// `heldAt`: a photo.put whose object is not confirmed in the bucket yet stops the push there (nothing
+// from it on is applied, lastMutationId stays before it); the device uploads and confirms the photo,
+// then pushes again.
+export const pushResultSchema = z.object({
+  mutationId: z.number().int().positive(),
+  status: z.enum(["applied", "rejected"]),
+  reason: z.string().optional(),
+  duplicate: z.boolean().optional(),
+});
+export const pushResponseSchema = z.object({
+  protocolVersion: z.number().int(),
+  lastMutationId: z.number().int().nonnegative(),
+  results: z.array(pushResultSchema),
+  heldAt: z.number().int().positive().optional(),
+  reason: z.string().optional(),
+});
+export type PushResult = z.infer<typeof pushResultSchema>;
+export type PushResponse = z.infer<typeof pushResponseSchema>;
+
 export const pullRequestSchema = z.strictObject({
   protocolVersion: z.number().int(),
   schemaVersion: z.number().int(),

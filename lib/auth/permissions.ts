@@ -26,6 +26,7 @@ export type Action = "read" | "write";
 export type Resource =
   | { kind: "account" | "field" | "planting" | "fertilizerPass" | "digSite"; access: AccountAccess }
   | { kind: "case"; access: AccountAccess; sharedWithGrower: boolean }
+  | { kind: "conflict"; regionId: string }
   | { kind: "product" }
   | { kind: "user"; regionId: string | null }
   | { kind: "region" };
@@ -58,6 +59,9 @@ export function can(actor: Actor, action: Action, resource: Resource): boolean {
       if (!inScope(actor, resource.access)) return false;
       if (actor.role === "grower") return action === "read" && resource.sharedWithGrower;
       return action === "read" || actor.role === "supervisor";
+    case "conflict":
+      // Sync conflicts are listed and settled by the supervisor of the record's region.
+      return actor.role === "supervisor" && actor.regionId === resource.regionId;
     case "product":
       return action === "read";
     case "user":
