@@ -1,12 +1,13 @@
 import admin from "./messages/en/admin.json";
 import auth from "./messages/en/auth.json";
 import common from "./messages/en/common.json";
+import dig from "./messages/en/dig.json";
 import field from "./messages/en/field.json";
 import home from "./messages/en/home.json";
 import products from "./messages/en/products.json";
 
 // One catalog per area, merged into namespaces; add a new area's file here.
-const catalogs = { en: { common, auth, admin, home, field, products } } as const;
+const catalogs = { en: { common, auth, admin, home, field, products, dig } } as const;
 
 export type Locale = keyof typeof catalogs;
 export type Messages = (typeof catalogs)["en"];
