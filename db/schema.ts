@@ -181,7 +181,7 @@ export interface DigSiteTable extends SyncColumns {
   notes: string | null;
   rootIndex: number | null;
   assessment: Json | null;
-  // Last change of each device-edited field (sync/server/merge.ts).
+  // Recent changes of each device-edited field (sync/server/merge.ts).
   fieldChanges: GeneratedJson;
 }
 

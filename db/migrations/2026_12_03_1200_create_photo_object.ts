@@ -1,9 +1,9 @@
 import { type Kysely, sql } from "kysely";
 
 // Photo objects the server has verified in the bucket (size and SHA-256 of the bytes), so each object
-// is checked once however many photo rows point at it; and, on the rows devices edit, the last change
-// of each field (who, at which version, and the value before it) for the field-by-field merge of
-// sync/server/merge.ts. Frozen: this file imports nothing from the app.
+// is checked once however many photo rows point at it; and, on the rows devices edit, the recent
+// changes of each field (version, device client, user, time, digest of the value) for the
+// field-by-field merge of sync/server/merge.ts. Frozen: this file imports nothing from the app.
 
 const SYNCED = ["dig_site", "dug_plant", "photo"] as const;
 
