@@ -6,6 +6,7 @@
 // PostgreSQL. Fixtures live in a region of their own (tests/helpers/sync.ts).
 import { randomUUID } from "node:crypto";
 import type { Kysely } from "kysely";
+import pg from "pg";
 import { beforeAll, describe, expect, it } from "vitest";
 import { createDb } from "@/db/client";
 import type { Database } from "@/db/schema";
@@ -236,6 +237,59 @@ describe("push: exactly once", () => {
     expect(await livePlants(dig.id)).toHaveLength(2);
     await a.pull();
     await assertInvariants(db, [a], { synced: [a] });
+  });
+  it("applies nothing when the push's transaction dies before COMMIT, and the retry applies it once", async () => {
+    const a = device("repA");
+    const dig = digPayload(fx.shared.fieldId, null);
+    a.putDig(dig);
+    a.putPlant(healthyPlant(dig.id, 1));
+    // Hold the region's version row so the push stops inside its transaction, then cancel it there.
+    const locker = new pg.Client({ connectionString: testEnv.databaseUrl });
+    const admin = new pg.Client({ connectionString: testEnv.superuserUrl });
+    await locker.connect();
+    await admin.connect();
+    try {
+      await locker.query("insert into sync_cursor (region_id) values ($1) on conflict do nothing", [
+        fx.regionId,
+      ]);
+      await locker.query("begin");
+      await locker.query("select version from sync_cursor where region_id = $1 for update", [fx.regionId]);
+      const lockerPid = (await locker.query("select pg_backend_pid() as pid")).rows[0].pid as number;
+      const pending = a.push();
+      let pid: number | undefined;
+      for (let i = 0; i < 100 && pid === undefined; i++) {
+        const { rows } = await admin.query(
+          `select pid from pg_stat_activity
+            where wait_event_type = 'Lock' and pid <> $1 and query ilike '%sync_cursor%'`,
+          [lockerPid],
+        );
+        pid = rows[0]?.pid;
+        if (pid === undefined) await new Promise((r) => setTimeout(r, 50));
+      }
+      expect(pid, "the push waits inside its transaction").toBeDefined();
+      await admin.query("select pg_cancel_backend($1)", [pid]);
+      const failed = await pending;
+      expect(failed.status).toBe(500);
+      expect(failed.body.error).toEqual(expect.any(String));
+    } finally {
+      await locker.query("rollback").catch(() => undefined);
+      await locker.end();
+      await admin.end();
+    }
+    expect(a.outbox).toHaveLength(2);
+    expect(
+      await db.selectFrom("digSite").select("id").where("id", "=", dig.id).executeTakeFirst(),
+    ).toBeUndefined();
+    expect(
+      await db.selectFrom("syncClient").select("id").where("id", "=", a.clientId).executeTakeFirst(),
+    ).toBeUndefined();
+    const retry = await a.push();
+    expect(retry.body).toMatchObject({
+      lastMutationId: 2,
+      results: [{ status: "applied" }, { status: "applied" }],
+    });
+    expect(await livePlants(dig.id)).toHaveLength(1);
+    await assertInvariants(db, [a]);
   });
 });
 
