@@ -5,7 +5,7 @@ import { useEffect, useRef, useState } from "react";
 import type { Workbox } from "workbox-window";
 
 // The field app's pages stored for offline use after the first online visit.
-const FIELD_PAGES = ["/field/calculator"];
+const FIELD_PAGES = ["/field/calculator", "/field/digs/new", "/field/digs/edit"];
 
 // Registers public/sw.js and offers a reload when a new version is waiting. It never reloads on its
 // own: a rep may be halfway through a form.
