@@ -15,8 +15,8 @@ import {
 } from "@/lib/agronomy";
 
 // How a recorded dig (site, dug plants, the planting, its fertilizer passes and the catalog) becomes
-// the agronomy core's input. Isomorphic and pure: the phone runs it for the live summary and the demo
-// seed for its stored assessment; the server assessing a pushed dig should call it too, so all agree.
+// the agronomy core's input. Isomorphic and pure: the phone runs it for the live summary, the demo seed
+// and the server (when a pushed dig is recomputed) for the stored assessment, so all three agree.
 
 /** The site as recorded; dugAt is ISO 8601, its date part (in the recorded offset) is the dig's day. */
 export interface AssessmentSite {
