@@ -224,6 +224,8 @@ export async function applyPull(
           uploaded: photo.confirmedAt !== null ? 1 : (old?.uploaded ?? 0),
         };
         await db.photos.put(local);
+        // The server holds the confirmed picture now: the phone's copy of the bytes can go.
+        if (photo.confirmedAt !== null) await db.photoBytes.delete(row.id);
       }
 
       await markRejected(db, clientId, done, pending, response.rejections);
@@ -241,7 +243,16 @@ export async function applyPull(
 
 // A full snapshot replaces the device's copy of server data. Records with entries still waiting
 // (and dig sites holding such records) stay; photos still in the snapshot keep their local bytes.
-async function dropServerCopy(db: FieldDatabase, changes: Changes, anchored: Set<string>) {
+async function dropServerCopy(db: FieldDatabase, changes: Changes, waiting: Set<string>) {
+  // Records the server refused stay too (with their dig), showing their reason until the rep acts.
+  const anchored = new Set(waiting);
+  for (const id of await db.digSites.where("syncState").equals("rejected").primaryKeys()) anchored.add(id);
+  for (const table of [db.dugPlants, db.photos] as const) {
+    for (const row of await table.where("syncState").equals("rejected").toArray()) {
+      anchored.add(row.id);
+      anchored.add(row.digSiteId);
+    }
+  }
   await db.fields.clear();
   await db.plantings.clear();
   await db.fertilizerPasses.clear();
