@@ -4,8 +4,16 @@ import { useTranslations } from "next-intl";
 import { useEffect, useRef, useState } from "react";
 import type { Workbox } from "workbox-window";
 
-// The field app's pages stored for offline use after the first online visit.
-const FIELD_PAGES = ["/field/calculator", "/field/digs/new", "/field/digs/edit"];
+// The field app's pages stored for offline use after the first online visit; /field/offline is the
+// page shown for one never stored.
+const FIELD_PAGES = [
+  "/field",
+  "/field/digs",
+  "/field/digs/new",
+  "/field/digs/edit",
+  "/field/calculator",
+  "/field/offline",
+];
 
 // Registers public/sw.js and offers a reload when a new version is waiting. It never reloads on its
 // own: a rep may be halfway through a form.

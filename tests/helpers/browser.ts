@@ -13,17 +13,30 @@ export async function signInAs(page: Page, key: string) {
   return user;
 }
 
-// Waits until the service worker controls the page and has stored the field pages.
-export async function waitForOfflineReady(page: Page, path: string) {
+// Waits until the service worker controls the page and has stored the given field pages.
+export async function waitForOfflineReady(page: Page, ...paths: string[]) {
   await page.waitForFunction(() => navigator.serviceWorker?.controller !== null, null, { timeout: 20_000 });
   await expect
     .poll(
       () =>
-        page.evaluate(async (p) => {
+        page.evaluate(async (ps) => {
           const cache = await caches.open("field-pages");
-          return Boolean(await cache.match(p));
-        }, path),
+          const found = await Promise.all(ps.map((p) => cache.match(p)));
+          return found.every(Boolean);
+        }, paths),
       { timeout: 20_000 },
     )
     .toBe(true);
+}
+
+// The path of every URL held in any Cache Storage cache of the page's origin.
+export async function cachedPaths(page: Page): Promise<string[]> {
+  return page.evaluate(async () => {
+    const paths: string[] = [];
+    for (const name of await caches.keys()) {
+      const cache = await caches.open(name);
+      for (const req of await cache.keys()) paths.push(new URL(req.url).pathname);
+    }
+    return paths;
+  });
 }

@@ -1,8 +1,19 @@
+import type { Metadata, Viewport } from "next";
 import Link from "next/link";
 import { getTranslations } from "next-intl/server";
 import { OnlineStatus } from "@/app/_components/online-status";
 import { ServiceWorkerRegistration } from "@/app/_components/service-worker-registration";
 import { requirePageUser } from "@/lib/auth/session";
+import { FieldNav } from "./_components/field-nav";
+import { PersistWarning, StorageAlert } from "./_components/storage-status";
+
+export const metadata: Metadata = {
+  icons: { apple: "/icons/apple-touch-icon.png" },
+  appleWebApp: { capable: true, statusBarStyle: "default" },
+};
+
+// sprout-900, the header's colour, so an installed app's status bar runs into it.
+export const viewport: Viewport = { themeColor: "#143a1c" };
 
 // The field app: phone-first, one hand, high contrast for sunlight, usable offline once loaded.
 export default async function FieldLayout({ children }: { children: React.ReactNode }) {
@@ -13,30 +24,19 @@ export default async function FieldLayout({ children }: { children: React.ReactN
       <header className="sticky top-0 z-30 flex items-center gap-3 bg-sprout-900 px-gutter py-2 text-white">
         <span className="text-lg font-bold">{t("title")}</span>
         <OnlineStatus />
+        <Link
+          href="/"
+          className="ml-auto flex min-h-tap items-center rounded px-3 font-semibold underline underline-offset-4 hover:bg-sprout-700"
+        >
+          {t("nav.office")}
+        </Link>
       </header>
+      <StorageAlert />
       <main id="main" className="mx-auto w-full max-w-2xl flex-1 px-gutter pt-4 pb-28">
         {children}
+        <PersistWarning />
       </main>
-      <nav
-        aria-label={t("nav.label")}
-        className="fixed inset-x-0 bottom-0 z-30 border-t-2 border-soil-200 bg-white pb-[env(safe-area-inset-bottom)]"
-      >
-        <ul className="mx-auto flex max-w-2xl">
-          <li className="flex-1">
-            <Link
-              href="/field/calculator"
-              className="flex min-h-16 items-center justify-center font-bold text-sprout-900"
-            >
-              {t("nav.calculator")}
-            </Link>
-          </li>
-          <li className="flex-1">
-            <Link href="/" className="flex min-h-16 items-center justify-center font-bold text-soil-900">
-              {t("nav.office")}
-            </Link>
-          </li>
-        </ul>
-      </nav>
+      <FieldNav />
       <ServiceWorkerRegistration />
     </div>
   );
