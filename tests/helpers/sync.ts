@@ -246,17 +246,24 @@ export class SimDevice {
 
 const lastRegionVersions = new Map<string, number>();
 
+// What assertInvariants reads of a device: a SimDevice, or the snapshot of a device running the
+// real client code (tests/helpers/field-device.ts).
+export type InvariantDevice = Pick<
+  SimDevice,
+  "label" | "clientId" | "lastAcked" | "created" | "local" | "outbox"
+>;
+
 export interface InvariantOptions {
   // Devices that have synced completely (outbox empty, then pulled): their local copy must equal
   // the server's view (invariant 3).
-  synced?: SimDevice[];
+  synced?: InvariantDevice[];
   // Exact number of conflict rows expected per "recordId:field".
   conflicts?: Record<string, number>;
 }
 
 export async function assertInvariants(
   db: Kysely<Database>,
-  devices: SimDevice[],
+  devices: InvariantDevice[],
   options: InvariantOptions = {},
 ): Promise<void> {
   for (const device of devices) {
