@@ -5,9 +5,10 @@ import dig from "./messages/en/dig.json";
 import field from "./messages/en/field.json";
 import home from "./messages/en/home.json";
 import products from "./messages/en/products.json";
+import sync from "./messages/en/sync.json";
 
 // One catalog per area, merged into namespaces; add a new area's file here.
-const catalogs = { en: { common, auth, admin, home, field, products, dig } } as const;
+const catalogs = { en: { common, auth, admin, home, field, products, dig, sync } } as const;
 
 export type Locale = keyof typeof catalogs;
 export type Messages = (typeof catalogs)["en"];
