@@ -91,6 +91,10 @@ export function LiveSummary({
       (planting === null || p.plantingId === null || p.plantingId === planting.id),
   );
 
+  // Placement findings are listed once, under the placement audit; the flags list shows the rest.
+  const auditKeys = new Set((a?.audit ?? []).map((f) => `${f.code}|${f.message}`));
+  const rootFlags = (a?.flags ?? []).filter((f) => !auditKeys.has(`${f.code}|${f.message}`));
+
   return (
     <section
       aria-labelledby="summary-heading"
@@ -160,11 +164,11 @@ export function LiveSummary({
       {a ? (
         <>
           <h3 className="mt-4 text-lg font-bold">{t("flags")}</h3>
-          {a.flags.length === 0 ? (
+          {rootFlags.length === 0 ? (
             <p className="mt-1">{t("noFlags")}</p>
           ) : (
             <ul className="mt-2 space-y-2">
-              {a.flags.map((f, i) => (
+              {rootFlags.map((f, i) => (
                 <FindingItem key={`${f.code}-${i}`} finding={f} />
               ))}
             </ul>
