@@ -6,6 +6,7 @@ import { ServiceWorkerRegistration } from "@/app/_components/service-worker-regi
 import { requirePageUser } from "@/lib/auth/session";
 import { FieldNav } from "./_components/field-nav";
 import { PersistWarning, StorageAlert } from "./_components/storage-status";
+import { SyncStatusBar } from "./_components/sync-status-bar";
 
 export const metadata: Metadata = {
   icons: { apple: "/icons/apple-touch-icon.png" },
@@ -31,6 +32,7 @@ export default async function FieldLayout({ children }: { children: React.ReactN
           {t("nav.office")}
         </Link>
       </header>
+      <SyncStatusBar />
       <StorageAlert />
       <main id="main" className="mx-auto w-full max-w-2xl flex-1 px-gutter pt-4 pb-28">
         {children}

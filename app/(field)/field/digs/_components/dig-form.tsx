@@ -19,6 +19,7 @@ import { pullNow } from "@/sync/client/pull";
 import { saveDig, saveDraft } from "@/sync/client/records";
 import { classifyStorageError, type StorageErrorKind } from "@/sync/client/storage";
 import { SOIL_MOISTURE } from "@/sync/protocol";
+import { requestSync } from "../../_components/sync-status-bar";
 import { ConfirmDialog } from "./confirm-dialog";
 import { type DigPhoto, photoCaption, photoPayload } from "./dig-photos";
 import { RadioChoices, SelectInput, TextArea, TextInput } from "./form-controls";
@@ -304,6 +305,8 @@ export function DigForm({
       });
       return;
     }
+    // Send it now when there is signal, rather than at the runner's next tick.
+    requestSync();
     onSaved(out.site.id);
   }
 
