@@ -1,8 +1,8 @@
 import "@fontsource-variable/public-sans";
 import "./globals.css";
 import type { Metadata, Viewport } from "next";
-import { NextIntlClientProvider } from "next-intl";
 import { getLocale, getTranslations } from "next-intl/server";
+import { ScopedMessages } from "./_components/scoped-messages";
 
 export async function generateMetadata(): Promise<Metadata> {
   const t = await getTranslations("common");
@@ -23,7 +23,7 @@ export default async function RootLayout({ children }: { children: React.ReactNo
         >
           {t("skipToContent")}
         </a>
-        <NextIntlClientProvider>{children}</NextIntlClientProvider>
+        <ScopedMessages namespaces={[]}>{children}</ScopedMessages>
       </body>
     </html>
   );

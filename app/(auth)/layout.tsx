@@ -1,4 +1,5 @@
 import { getTranslations } from "next-intl/server";
+import { ScopedMessages } from "@/app/_components/scoped-messages";
 
 export default async function AuthLayout({ children }: { children: React.ReactNode }) {
   const t = await getTranslations("common");
@@ -8,7 +9,9 @@ export default async function AuthLayout({ children }: { children: React.ReactNo
         <span className="block text-3xl font-bold text-sprout-700">{t("appName")}</span>
         <span className="text-sm text-soil-700">{t("tagline")}</span>
       </p>
-      <div className="card">{children}</div>
+      <div className="card">
+        <ScopedMessages namespaces={["auth"]}>{children}</ScopedMessages>
+      </div>
     </main>
   );
 }

@@ -1,6 +1,7 @@
 import Link from "next/link";
 import { getTranslations } from "next-intl/server";
 import { requirePageUser } from "@/lib/auth/session";
+import { ScopedMessages } from "@/app/_components/scoped-messages";
 import { SignOutButton } from "./_components/sign-out-button";
 
 export default async function OfficeLayout({ children }: { children: React.ReactNode }) {
@@ -45,7 +46,7 @@ export default async function OfficeLayout({ children }: { children: React.React
         </div>
       </header>
       <main id="main" className="mx-auto max-w-6xl p-gutter">
-        {children}
+        <ScopedMessages namespaces={["auth", "admin", "home", "products"]}>{children}</ScopedMessages>
       </main>
     </div>
   );

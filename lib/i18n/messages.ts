@@ -16,3 +16,10 @@ export type Messages = (typeof catalogs)["en"];
 export async function loadMessages(locale: string): Promise<Messages> {
   return catalogs[(locale in catalogs ? locale : "en") as Locale];
 }
+
+export type Namespace = keyof Messages;
+
+// Client components get only the catalogs of their part of the app, not every catalog on every page.
+export function pickMessages(messages: Record<string, unknown>, namespaces: readonly Namespace[]) {
+  return Object.fromEntries(namespaces.map((n) => [n, messages[n]]));
+}
