@@ -8,4 +8,8 @@ export const testEnv = {
   mailApi: `http://127.0.0.1:${env.MAIL_WEB_PORT}`,
   s3Endpoint: env.S3_ENDPOINT,
   bucket: env.S3_BUCKET,
+  // tests/integration/sync-property.test.ts: replay a seed (and a counterexample path), or run more.
+  syncPropertySeed: process.env.SYNC_PROPERTY_SEED,
+  syncPropertyPath: process.env.SYNC_PROPERTY_PATH,
+  syncPropertyRuns: process.env.SYNC_PROPERTY_RUNS,
 };

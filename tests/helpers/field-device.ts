@@ -94,6 +94,12 @@ export class FieldDevice {
     return { arrived, release };
   }
 
+  /** Forgets faults and rewrites that no request has used yet. */
+  clearFaults() {
+    this.faults = [];
+    this.rewrites = [];
+  }
+
   /** The next request to `path` has its JSON body changed on the way (a reordering network). */
   rewriteNext(path: string, rewrite: (body: Record<string, unknown>) => Record<string, unknown>) {
     this.rewrites.push({ path, rewrite });
@@ -113,7 +119,10 @@ export class FieldDevice {
     const h = this.holds.findIndex((x) => x.path === url);
     const hold = h >= 0 ? this.holds.splice(h, 1)[0]! : null;
     this.sent.push({ path: url, body: JSON.parse(String(init?.body ?? "null")) });
-    const res = await this.api.fetch(url, init);
+    const res = await this.api.fetch(url, init).catch((err: unknown) => {
+      hold?.markArrived();
+      throw err;
+    });
     if (fault === "drop-after-commit") {
       await res.arrayBuffer();
       throw new TypeError("socket hang up");
