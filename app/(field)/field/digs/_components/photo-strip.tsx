@@ -3,7 +3,6 @@
 import { useTranslations } from "next-intl";
 import { useEffect, useId, useRef, useState } from "react";
 import { PHOTO_TYPES } from "@/sync/protocol";
-import { preparePhoto } from "./compress-photo";
 import type { DigPhoto } from "./dig-photos";
 
 function Thumbnail({ photo, alt }: { photo: DigPhoto; alt: string }) {
@@ -70,6 +69,8 @@ export function PhotoStrip({
       setPending((p) => [...p, { key, name: file.name, progress: 0 }]);
       try {
         if (!file.type.startsWith("image/")) throw new Error(`not an image: ${file.type}`);
+        // The compression library loads with the first photo, not with the form (it is precached).
+        const { preparePhoto } = await import("./compress-photo");
         const prepared = await preparePhoto(file, (progress) =>
           setPending((p) => p.map((x) => (x.key === key ? { ...x, progress } : x))),
         );
