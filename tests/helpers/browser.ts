@@ -15,7 +15,8 @@ export async function signInAs(page: Page, key: string) {
 
 // Waits until the service worker controls the page and has stored the given field pages.
 export async function waitForOfflineReady(page: Page, ...paths: string[]) {
-  await page.waitForFunction(() => navigator.serviceWorker?.controller !== null, null, { timeout: 20_000 });
+  // Installing precaches every built script; on a loaded 2-core machine that can take a while.
+  await page.waitForFunction(() => navigator.serviceWorker?.controller !== null, null, { timeout: 40_000 });
   await expect
     .poll(
       () =>
