@@ -81,12 +81,16 @@ async function sha256Hex(bytes: ArrayBuffer): Promise<string> {
   return Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, "0")).join("");
 }
 
-// Photos waiting for upload, in the order the rep took them.
+// Photos waiting for upload, in the order their rows wait in the outbox (the order the rep took them).
 async function waitingPhotos(db: FieldDatabase, only?: string[]) {
-  return db.transaction("r", [db.photos, db.photoBytes, db.digSites], async () => {
+  return db.transaction("r", [db.photos, db.photoBytes, db.digSites, db.outbox], async () => {
+    const queued = new Map<string, number>();
+    for (const e of await db.outbox.toArray())
+      if (!queued.has(e.recordId)) queued.set(e.recordId, e.mutationId);
+    const rank = (id: string) => queued.get(id) ?? Number.MAX_SAFE_INTEGER;
     const photos = (await db.photos.where("uploaded").equals(0).toArray())
       .filter((p) => p.syncState !== "rejected" && (!only || only.includes(p.id)))
-      .sort((a, b) => a.updatedLocallyAt.localeCompare(b.updatedLocallyAt));
+      .sort((a, b) => rank(a.id) - rank(b.id) || a.id.localeCompare(b.id));
     const out: { photo: LocalPhoto; bytes: ArrayBuffer; fieldId: string | null }[] = [];
     for (const photo of photos) {
       const stored = await db.photoBytes.get(photo.id);

@@ -49,6 +49,8 @@ export interface SyncRunnerStatus {
 }
 
 export function failureOf(err: unknown): SyncFailure {
+  // A failure whose own recording failed too: the first is what happened.
+  if (err instanceof AggregateError && err.errors.length > 0) return failureOf(err.errors[0]);
   const message = err instanceof Error ? err.message : String(err);
   if (err instanceof SignedOutError) return { kind: "signedOut", message };
   if (err instanceof UnsupportedVersionError) return { kind: "version", message };

@@ -10,6 +10,7 @@ import { LAST_ACKED, push } from "@/sync/client/push";
 import { type DigSave, saveDig } from "@/sync/client/records";
 import {
   backoffDelay,
+  failureOf,
   type RunnerEnv,
   type SyncRunnerStatus,
   startSyncRunner,
@@ -759,6 +760,16 @@ describe("runner", () => {
     await Promise.all([runner.syncNow(), runner.syncNow(), runner.syncNow()]);
     expect(pulls).toBe(4);
     runner.stop();
+  });
+
+  it("names each failure's kind, the first of a failure whose recording failed too", () => {
+    expect(failureOf(new SignedOutError()).kind).toBe("signedOut");
+    expect(failureOf(new UnsupportedVersionError("old")).kind).toBe("version");
+    expect(failureOf(new SyncHttpError("down", null)).kind).toBe("network");
+    expect(failureOf(new SyncHttpError("500", 500)).kind).toBe("server");
+    expect(failureOf(new DOMException("full", "QuotaExceededError")).kind).toBe("storage");
+    const closed = Object.assign(new Error("closed"), { name: "DatabaseClosedError" });
+    expect(failureOf(new AggregateError([closed, new Error("meta")], "both")).kind).toBe("storage");
   });
 
   it("jitters between half and the whole of the ceiling", () => {

@@ -72,7 +72,6 @@ export function SyncStatusBar() {
   else if (status.phase === "uploading") line = t("bar.uploading", { percent });
   else if (status.phase === "pushing") line = t("bar.pushing", { percent });
   else if (status.phase === "pulling") line = t("bar.pulling");
-  else if (!status.online) line = t("bar.offline");
   else if (status.pendingMutations === 0 && status.pendingPhotos === 0) line = t("bar.allSent");
   else line = t("bar.waiting", { records: status.pendingMutations, photos: status.pendingPhotos });
 
@@ -87,11 +86,13 @@ export function SyncStatusBar() {
         <p aria-live="polite" className="min-w-0 flex-1 basis-52">
           <span className="font-bold">{line}</span>
           <span className="block text-sm text-soil-700">
-            {status?.lastSuccessAt
-              ? t("bar.lastSync", { when: ago(status.lastSuccessAt) })
-              : status
-                ? t("bar.neverSynced")
-                : "\u00a0"}
+            {status && !status.online
+              ? t("bar.offline")
+              : status?.lastSuccessAt
+                ? t("bar.lastSync", { when: ago(status.lastSuccessAt) })
+                : status
+                  ? t("bar.neverSynced")
+                  : "\u00a0"}
             {status?.otherTab ? ` · ${t("bar.otherTab")}` : null}
           </span>
         </p>
