@@ -165,6 +165,14 @@ export function backoffDelay(failures: number, baseMs: number, capMs: number, ra
   return Math.round(ceiling / 2 + (random() * ceiling) / 2);
 }
 
+// Photos still to upload; one the server refused for good is shown as refused, not as waiting.
+const waitingPhotoCount = (db: FieldDatabase) =>
+  db.photos
+    .where("uploaded")
+    .equals(0)
+    .filter((p) => p.syncState !== "rejected")
+    .count();
+
 async function refusedRecords(db: FieldDatabase): Promise<RefusedRecord[]> {
   return db.transaction("r", [db.digSites, db.dugPlants, db.photos], async () => {
     const sites = await db.digSites.where("syncState").equals("rejected").toArray();
@@ -239,7 +247,7 @@ export function startSyncRunner(options: SyncRunnerOptions = {}): SyncRunner {
     const db = getDb();
     const [pendingMutations, pendingPhotos, refused, last] = await Promise.all([
       db.outbox.count(),
-      db.photos.where("uploaded").equals(0).count(),
+      waitingPhotoCount(db),
       refusedRecords(db),
       db.meta.get(LAST_SYNC_AT),
     ]);
@@ -256,9 +264,7 @@ export function startSyncRunner(options: SyncRunnerOptions = {}): SyncRunner {
   const watchCounts = () => {
     watch?.unsubscribe();
     const db = getDb();
-    watch = liveQuery(() =>
-      Promise.all([db.outbox.count(), db.photos.where("uploaded").equals(0).count()]),
-    ).subscribe({
+    watch = liveQuery(() => Promise.all([db.outbox.count(), waitingPhotoCount(db)])).subscribe({
       next: ([pendingMutations, pendingPhotos]) => emit({ pendingMutations, pendingPhotos }),
       error: (err: unknown) => {
         cycleError = failureOf(err);

@@ -835,6 +835,24 @@ describe("runner", () => {
     runner.stop();
   });
 
+  it("counts a photo refused for good as refused, not as waiting", async () => {
+    const s = site();
+    const a = photo(s.id, 1);
+    await save(db, s, [], [a]);
+    await db.photoBytes.put({ id: a.meta.id, bytes: new Uint8Array(1000).fill(2).buffer });
+    const runner = startSyncRunner({
+      db: () => db,
+      env: new FakeEnv(),
+      fetch: server.fetch,
+      put: server.put,
+    });
+    await runner.syncNow();
+    expect(runner.status()).toMatchObject({ pendingPhotos: 0, pendingMutations: 0 });
+    expect(runner.status().refused.map((r) => [r.table, r.id])).toEqual([["photo", a.meta.id]]);
+    expect(runner.status().error?.message).toMatch(/A photo was refused/);
+    runner.stop();
+  });
+
   it("fieldDb() reopens after the database was closed by the app or by the browser", async () => {
     const first = fieldDb();
     await first.outbox.count();
