@@ -16,7 +16,7 @@ import {
   seedPlacedCheck,
   stageOnDate,
 } from "@/lib/agronomy";
-import { type AssessmentPlant, assessmentInputFor } from "@/lib/digs/assessment";
+import { type AssessmentPlant, assessmentInputFor, assessmentPlantOf } from "@/lib/digs/assessment";
 import type { Database, NewDigSite, NewDugPlant, NewPhoto } from "../schema";
 import { DEMO_GRID_ORIGIN, type SeededField } from "./fields";
 import { gridToLonLat, insideCorners } from "./geo";
@@ -228,21 +228,12 @@ function draftPlant(
 
 /** A drafted plant as the rep would record it (the dug_plant row's measurements). */
 function recordedPlant(p: PlantDraft): AssessmentPlant {
-  return {
+  return assessmentPlantOf({
+    ...p,
     leafStage: stageName(p.leafCollars),
-    seedingDepthIn: p.seedingDepthIn,
-    crownDepthIn: p.crownDepthIn,
-    mesocotyl: p.mesocotyl,
-    seminalScore: p.seminalScore,
-    nodalWhorls: p.nodalWhorls,
-    nodalCount: p.nodalCount,
-    longestNodalIn: p.longestNodalIn,
-    seminalInjury: p.seminalInjury,
-    nodalInjury: p.nodalInjury,
-    findings: p.findings,
     bandBesideIn: p.band?.besideIn ?? null,
     bandBelowIn: p.band?.belowIn ?? null,
-  };
+  });
 }
 
 /**
@@ -512,19 +503,8 @@ export async function seedDigs(
         id: plantIds[i]!,
         digSiteId: digId,
         position: i + 1,
-        leafStage: stageName(p.leafCollars),
-        seedingDepthIn: p.seedingDepthIn,
-        crownDepthIn: p.crownDepthIn,
-        mesocotyl: p.mesocotyl,
-        seminalScore: p.seminalScore,
-        nodalWhorls: p.nodalWhorls,
-        nodalCount: p.nodalCount,
-        longestNodalIn: p.longestNodalIn,
-        seminalInjury: p.seminalInjury,
-        nodalInjury: p.nodalInjury,
-        findings: p.findings,
-        bandBesideIn: p.band?.besideIn ?? null,
-        bandBelowIn: p.band?.belowIn ?? null,
+        ...recordedPlant(p),
+        findings: [...p.findings],
         notes: p.notes,
         rootIndex: assessment.plants[i]?.index ?? null,
         ...audit,

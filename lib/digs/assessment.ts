@@ -42,6 +42,25 @@ export interface AssessmentPlant {
   bandBelowIn: number | null;
 }
 
+// The measurements of a stored dug plant (a database row, a Dexie row) that the assessment reads.
+export function assessmentPlantOf(row: AssessmentPlant): AssessmentPlant {
+  return {
+    leafStage: row.leafStage,
+    seedingDepthIn: row.seedingDepthIn,
+    crownDepthIn: row.crownDepthIn,
+    mesocotyl: row.mesocotyl,
+    seminalScore: row.seminalScore,
+    nodalWhorls: row.nodalWhorls,
+    nodalCount: row.nodalCount,
+    longestNodalIn: row.longestNodalIn,
+    seminalInjury: row.seminalInjury,
+    nodalInjury: row.nodalInjury,
+    findings: row.findings,
+    bandBesideIn: row.bandBesideIn,
+    bandBelowIn: row.bandBelowIn,
+  };
+}
+
 export interface AssessmentPlanting {
   id: string;
   /** Row spacing, inches. */

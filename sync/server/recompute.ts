@@ -1,7 +1,12 @@
 import "server-only";
 import { sql } from "kysely";
 import { assessDig, type DigAssessment, SEVERITIES } from "@/lib/agronomy";
-import { type AssessmentPlant, assessmentInputFor, missingMeasurements } from "@/lib/digs/assessment";
+import {
+  type AssessmentPlant,
+  assessmentInputFor,
+  assessmentPlantOf,
+  missingMeasurements,
+} from "@/lib/digs/assessment";
 import type { Trx } from "./merge";
 
 // The server's own numbers for a dig (issue 5): the placement audit, root index and injury flags are
@@ -110,21 +115,7 @@ export async function recomputeDig(
           .where("id", "in", productIds)
           .execute();
 
-  const recorded: AssessmentPlant[] = plants.map((p) => ({
-    leafStage: p.leafStage,
-    seedingDepthIn: p.seedingDepthIn,
-    crownDepthIn: p.crownDepthIn,
-    mesocotyl: p.mesocotyl,
-    seminalScore: p.seminalScore,
-    nodalWhorls: p.nodalWhorls,
-    nodalCount: p.nodalCount,
-    longestNodalIn: p.longestNodalIn,
-    seminalInjury: p.seminalInjury,
-    nodalInjury: p.nodalInjury,
-    findings: p.findings,
-    bandBesideIn: p.bandBesideIn,
-    bandBelowIn: p.bandBelowIn,
-  }));
+  const recorded: AssessmentPlant[] = plants.map(assessmentPlantOf);
   let assessment: DigAssessment | null = null;
   if (recorded.some((p) => missingMeasurements(p).length === 0)) {
     try {
