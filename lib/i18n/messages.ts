@@ -6,9 +6,32 @@ import field from "./messages/en/field.json";
 import home from "./messages/en/home.json";
 import products from "./messages/en/products.json";
 import sync from "./messages/en/sync.json";
+import office from "./messages/en/office.json";
+import map from "./messages/en/map.json";
+import fieldPage from "./messages/en/fieldPage.json";
+import reports from "./messages/en/reports.json";
+import cases from "./messages/en/cases.json";
+import grower from "./messages/en/grower.json";
 
 // One catalog per area, merged into namespaces; add a new area's file here.
-const catalogs = { en: { common, auth, admin, home, field, products, dig, sync } } as const;
+const catalogs = {
+  en: {
+    common,
+    auth,
+    admin,
+    home,
+    field,
+    products,
+    dig,
+    sync,
+    office,
+    map,
+    fieldPage,
+    reports,
+    cases,
+    grower,
+  },
+} as const;
 
 export type Locale = keyof typeof catalogs;
 export type Messages = (typeof catalogs)["en"];
