@@ -6,6 +6,8 @@ const withNextIntl = createNextIntlPlugin("./lib/i18n/request.ts");
 const nextConfig = {
   reactStrictMode: true,
   poweredByHeader: false,
+  // pdfkit reads its built-in font metrics (AFM files) from its own folder at run time.
+  serverExternalPackages: ["pdfkit"],
   // Route handlers read request bodies themselves and cap them (lib/http.ts); server actions too.
   experimental: { serverActions: { bodySizeLimit: "1mb" } },
   async headers() {
