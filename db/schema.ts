@@ -296,6 +296,32 @@ export interface SyncConflictTable {
   version: Generated<number>;
 }
 
+export interface RecommendationResponseTable {
+  id: Generated<string>;
+  digSiteId: string;
+  userId: string;
+  kind: "acknowledged" | "comment";
+  body: string | null;
+  createdAt: GeneratedTimestamp;
+}
+
+export type FieldReportStatus = "sending" | "sent" | "failed";
+
+export interface FieldReportTable {
+  id: Generated<string>;
+  fieldId: string;
+  accountId: string;
+  createdBy: string | null;
+  objectKey: string;
+  byteSize: number;
+  sha256: string;
+  recipients: ColumnType<string[], string[] | undefined, string[]>;
+  status: ColumnType<FieldReportStatus, FieldReportStatus | undefined, FieldReportStatus>;
+  error: string | null;
+  createdAt: GeneratedTimestamp;
+  sentAt: Timestamp | null;
+}
+
 export interface Database {
   region: RegionTable;
   appUser: AppUserTable;
@@ -321,6 +347,8 @@ export interface Database {
   syncClient: SyncClientTable;
   syncMutationResult: SyncMutationResultTable;
   syncConflict: SyncConflictTable;
+  fieldReport: FieldReportTable;
+  recommendationResponse: RecommendationResponseTable;
 }
 
 export type Region = Selectable<RegionTable>;
@@ -351,3 +379,5 @@ export type SyncConflict = Selectable<SyncConflictTable>;
 export type InjuryCase = Selectable<InjuryCaseTable>;
 export type InjuryCaseEvent = Selectable<InjuryCaseEventTable>;
 export type WeatherDaily = Selectable<WeatherDailyTable>;
+export type RecommendationResponse = Selectable<RecommendationResponseTable>;
+export type FieldReport = Selectable<FieldReportTable>;
