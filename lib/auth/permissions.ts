@@ -26,6 +26,7 @@ export type Action = "read" | "write";
 export type Resource =
   | { kind: "account" | "field" | "planting" | "fertilizerPass" | "digSite"; access: AccountAccess }
   | { kind: "case"; access: AccountAccess; sharedWithGrower: boolean }
+  | { kind: "recommendationResponse"; access: AccountAccess }
   | { kind: "conflict"; regionId: string }
   | { kind: "product" }
   | { kind: "user"; regionId: string | null }
@@ -59,6 +60,10 @@ export function can(actor: Actor, action: Action, resource: Resource): boolean {
       if (!inScope(actor, resource.access)) return false;
       if (actor.role === "grower") return action === "read" && resource.sharedWithGrower;
       return action === "read" || actor.role === "supervisor";
+    case "recommendationResponse":
+      // The farm's grower acknowledges and comments on a dig's recommendation; the serving rep answers.
+      if (!inScope(actor, resource.access)) return false;
+      return action === "read" || actor.role === "grower" || actor.role === "rep";
     case "conflict":
       // Sync conflicts are listed and settled by the supervisor of the record's region.
       return actor.role === "supervisor" && actor.regionId === resource.regionId;
