@@ -37,3 +37,14 @@ test("an API call without a session gets 401 JSON, not a redirect", async ({ req
   expect(res.headers()["content-type"]).toContain("application/json");
   expect((await res.json()).error).toMatch(/sign in/i);
 });
+
+test("a signed-out visitor returns to the page they asked for after signing in", async ({ page }) => {
+  const admin = DEMO_USERS.find((u) => u.key === "admin")!;
+  await page.goto("/admin/regions?q=Sand");
+  await expect(page).toHaveURL(/\/sign-in\?next=%2Fadmin%2Fregions%3Fq%3DSand$/);
+  await page.getByLabel("E-mail").fill(admin.email);
+  await page.getByLabel("Password").fill(DEMO_PASSWORD);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page).toHaveURL(/\/admin\/regions\?q=Sand$/);
+  await expect(page.getByText(`Signed in as ${admin.name}`)).toBeVisible();
+});

@@ -8,7 +8,7 @@ import { useState } from "react";
 
 const KNOWN = ["InvalidInput", "WrongCredentials", "TooManyAttempts", "Deactivated", "SessionRequired"];
 
-export function SignInForm({ initialError }: { initialError: string | null }) {
+export function SignInForm({ initialError, returnTo }: { initialError: string | null; returnTo: string }) {
   const t = useTranslations("auth.signIn");
   const router = useRouter();
   const [error, setError] = useState<string | null>(initialError);
@@ -35,7 +35,7 @@ export function SignInForm({ initialError }: { initialError: string | null }) {
         setError(res?.error ?? "default");
         return;
       }
-      router.replace("/");
+      router.replace(returnTo);
       router.refresh();
     } catch {
       setError("default");
