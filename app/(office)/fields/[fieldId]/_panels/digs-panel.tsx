@@ -99,67 +99,69 @@ export async function DigsPanel({ digs, headingId }: { digs: readonly DigRootInd
   return (
     <>
       <figure className="mt-3">
-        <svg
-          viewBox={`0 0 ${CHART.width} ${CHART.height}`}
-          role="img"
-          aria-labelledby={`${titleId} ${descId}`}
-          className="h-auto w-full max-w-3xl text-soil-900"
-        >
-          <title id={titleId}>{t("chartTitle")}</title>
-          <desc id={descId}>
-            {t("chartDesc", {
-              digs: digs.length,
-              hybrids: hybrids.length,
-              first: day(first),
-              last: day(last),
+        <div className="overflow-x-auto">
+          <svg
+            viewBox={`0 0 ${CHART.width} ${CHART.height}`}
+            role="img"
+            aria-labelledby={`${titleId} ${descId}`}
+            className="h-auto w-full min-w-[36rem] max-w-3xl text-soil-900"
+          >
+            <title id={titleId}>{t("chartTitle")}</title>
+            <desc id={descId}>
+              {t("chartDesc", {
+                digs: digs.length,
+                hybrids: hybrids.length,
+                first: day(first),
+                last: day(last),
+              })}
+            </desc>
+            {[0, 20, 40, 60, 80, 100].map((v) => (
+              <g key={v}>
+                <line x1={PLOT.x0} x2={PLOT.x1} y1={y(v)} y2={y(v)} className="stroke-soil-200" />
+                <text x={PLOT.x0 - 6} y={y(v) + 4} textAnchor="end" className="fill-current text-[13px]">
+                  {v}
+                </text>
+              </g>
+            ))}
+            {dateTicks(spanStart, spanEnd).map((d) => (
+              <g key={d}>
+                <line x1={x(d)} x2={x(d)} y1={PLOT.y0} y2={PLOT.y0 + 5} className="stroke-current" />
+                <text x={x(d)} y={PLOT.y0 + 18} textAnchor="middle" className="fill-current text-[13px]">
+                  {day(d)}
+                </text>
+              </g>
+            ))}
+            <line x1={PLOT.x0} x2={PLOT.x1} y1={PLOT.y0} y2={PLOT.y0} className="stroke-current" />
+            <line x1={PLOT.x0} x2={PLOT.x0} y1={PLOT.y0} y2={PLOT.y1} className="stroke-current" />
+            <text
+              x={(PLOT.x0 + PLOT.x1) / 2}
+              y={CHART.height - 8}
+              textAnchor="middle"
+              className="fill-current text-[14px]"
+            >
+              {t("xAxis")}
+            </text>
+            <text
+              transform={`translate(14 ${(PLOT.y0 + PLOT.y1) / 2}) rotate(-90)`}
+              textAnchor="middle"
+              className="fill-current text-[14px]"
+            >
+              {t("yAxis")}
+            </text>
+            {digs.map((d) => {
+              const look = lookOf.get(label(d.hybrid))!;
+              return (
+                <Marker
+                  key={d.id}
+                  shape={look.shape}
+                  colour={look.colour}
+                  cx={x(isoDay(d.dugAt))}
+                  cy={y(d.rootIndex)}
+                />
+              );
             })}
-          </desc>
-          {[0, 20, 40, 60, 80, 100].map((v) => (
-            <g key={v}>
-              <line x1={PLOT.x0} x2={PLOT.x1} y1={y(v)} y2={y(v)} className="stroke-soil-200" />
-              <text x={PLOT.x0 - 6} y={y(v) + 4} textAnchor="end" className="fill-current text-[11px]">
-                {v}
-              </text>
-            </g>
-          ))}
-          {dateTicks(spanStart, spanEnd).map((d) => (
-            <g key={d}>
-              <line x1={x(d)} x2={x(d)} y1={PLOT.y0} y2={PLOT.y0 + 5} className="stroke-current" />
-              <text x={x(d)} y={PLOT.y0 + 18} textAnchor="middle" className="fill-current text-[11px]">
-                {day(d)}
-              </text>
-            </g>
-          ))}
-          <line x1={PLOT.x0} x2={PLOT.x1} y1={PLOT.y0} y2={PLOT.y0} className="stroke-current" />
-          <line x1={PLOT.x0} x2={PLOT.x0} y1={PLOT.y0} y2={PLOT.y1} className="stroke-current" />
-          <text
-            x={(PLOT.x0 + PLOT.x1) / 2}
-            y={CHART.height - 8}
-            textAnchor="middle"
-            className="fill-current text-[12px]"
-          >
-            {t("xAxis")}
-          </text>
-          <text
-            transform={`translate(14 ${(PLOT.y0 + PLOT.y1) / 2}) rotate(-90)`}
-            textAnchor="middle"
-            className="fill-current text-[12px]"
-          >
-            {t("yAxis")}
-          </text>
-          {digs.map((d) => {
-            const look = lookOf.get(label(d.hybrid))!;
-            return (
-              <Marker
-                key={d.id}
-                shape={look.shape}
-                colour={look.colour}
-                cx={x(isoDay(d.dugAt))}
-                cy={y(d.rootIndex)}
-              />
-            );
-          })}
-        </svg>
+          </svg>
+        </div>
         <figcaption className="mt-2 text-sm">
           <p className="sr-only">{t("legendHeading")}</p>
           <ul className="flex flex-wrap gap-x-6 gap-y-2">

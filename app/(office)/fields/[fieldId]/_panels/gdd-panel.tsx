@@ -69,112 +69,114 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
       </p>
       {w.irrigated ? <p className="notice-caution mt-2">{t("irrigated")}</p> : null}
       <figure className="mt-4">
-        <svg
-          viewBox={`0 0 ${CHART.width} ${CHART.height}`}
-          role="img"
-          aria-labelledby={`${titleId} ${descId}`}
-          className="h-auto w-full max-w-3xl text-soil-900"
-        >
-          <title id={titleId}>{t("chartTitle")}</title>
-          <desc id={descId}>
-            {summary} {windowText}
-          </desc>
-          {opens ? (
-            <g>
-              <rect
-                x={x(clampDate(opens))}
-                y={PLOT.y1}
-                width={Math.max(2, x(clampDate(closes ?? data.end)) - x(clampDate(opens)))}
-                height={PLOT.y0 - PLOT.y1}
-                className="fill-sprout-100"
-              />
-              <text
-                x={x(clampDate(opens)) + 4}
-                y={PLOT.y1 + 14}
-                className="fill-sprout-900 text-[12px] font-semibold"
-              >
-                {t("windowLabel")}
-              </text>
-            </g>
-          ) : null}
-          {yTicks.map((v) => (
-            <g key={v}>
-              <line
-                x1={PLOT.x0}
-                x2={PLOT.x1}
-                y1={y(v)}
-                y2={y(v)}
-                className="stroke-soil-200"
-                strokeWidth={1}
-              />
-              <text x={PLOT.x0 - 6} y={y(v) + 4} textAnchor="end" className="fill-current text-[11px]">
-                {gdd(v)}
-              </text>
-            </g>
-          ))}
-          {dateTicks(first, data.end).map((d) => (
-            <g key={d}>
-              <line x1={x(d)} x2={x(d)} y1={PLOT.y0} y2={PLOT.y0 + 5} className="stroke-current" />
-              <text x={x(d)} y={PLOT.y0 + 18} textAnchor="middle" className="fill-current text-[11px]">
-                {day(d)}
-              </text>
-            </g>
-          ))}
-          <line x1={PLOT.x0} x2={PLOT.x1} y1={PLOT.y0} y2={PLOT.y0} className="stroke-current" />
-          <line x1={PLOT.x0} x2={PLOT.x0} y1={PLOT.y0} y2={PLOT.y1} className="stroke-current" />
-          <text
-            x={(PLOT.x0 + PLOT.x1) / 2}
-            y={CHART.height - 8}
-            textAnchor="middle"
-            className="fill-current text-[12px]"
+        <div className="overflow-x-auto">
+          <svg
+            viewBox={`0 0 ${CHART.width} ${CHART.height}`}
+            role="img"
+            aria-labelledby={`${titleId} ${descId}`}
+            className="h-auto w-full min-w-[36rem] max-w-3xl text-soil-900"
           >
-            {t("xAxis")}
-          </text>
-          <text
-            transform={`translate(14 ${(PLOT.y0 + PLOT.y1) / 2}) rotate(-90)`}
-            textAnchor="middle"
-            className="fill-current text-[12px]"
-          >
-            {t("yAxis")}
-          </text>
-          {data.series.map((s, i) => (
-            <SeriesLines
-              key={s.plantedOn}
-              series={s}
-              x={x}
-              y={y}
-              dash={s.current ? undefined : OTHER_DASH[i % OTHER_DASH.length]}
-            />
-          ))}
-          {current ? <ProjectedLabel series={current} x={x} y={y} label={t("projectedLabel")} /> : null}
-          {todayPoint ? (
-            <g>
-              <line
-                x1={x(data.today)}
-                x2={x(data.today)}
-                y1={PLOT.y0}
-                y2={PLOT.y1}
-                className="stroke-soil-700"
-                strokeDasharray="3 3"
+            <title id={titleId}>{t("chartTitle")}</title>
+            <desc id={descId}>
+              {summary} {windowText}
+            </desc>
+            {opens ? (
+              <g>
+                <rect
+                  x={x(clampDate(opens))}
+                  y={PLOT.y1}
+                  width={Math.max(2, x(clampDate(closes ?? data.end)) - x(clampDate(opens)))}
+                  height={PLOT.y0 - PLOT.y1}
+                  className="fill-sprout-100"
+                />
+                <text
+                  x={x(clampDate(opens)) + 4}
+                  y={PLOT.y1 + 14}
+                  className="fill-sprout-900 text-[14px] font-semibold"
+                >
+                  {t("windowLabel")}
+                </text>
+              </g>
+            ) : null}
+            {yTicks.map((v) => (
+              <g key={v}>
+                <line
+                  x1={PLOT.x0}
+                  x2={PLOT.x1}
+                  y1={y(v)}
+                  y2={y(v)}
+                  className="stroke-soil-200"
+                  strokeWidth={1}
+                />
+                <text x={PLOT.x0 - 6} y={y(v) + 4} textAnchor="end" className="fill-current text-[13px]">
+                  {gdd(v)}
+                </text>
+              </g>
+            ))}
+            {dateTicks(first, data.end).map((d) => (
+              <g key={d}>
+                <line x1={x(d)} x2={x(d)} y1={PLOT.y0} y2={PLOT.y0 + 5} className="stroke-current" />
+                <text x={x(d)} y={PLOT.y0 + 18} textAnchor="middle" className="fill-current text-[13px]">
+                  {day(d)}
+                </text>
+              </g>
+            ))}
+            <line x1={PLOT.x0} x2={PLOT.x1} y1={PLOT.y0} y2={PLOT.y0} className="stroke-current" />
+            <line x1={PLOT.x0} x2={PLOT.x0} y1={PLOT.y0} y2={PLOT.y1} className="stroke-current" />
+            <text
+              x={(PLOT.x0 + PLOT.x1) / 2}
+              y={CHART.height - 8}
+              textAnchor="middle"
+              className="fill-current text-[14px]"
+            >
+              {t("xAxis")}
+            </text>
+            <text
+              transform={`translate(14 ${(PLOT.y0 + PLOT.y1) / 2}) rotate(-90)`}
+              textAnchor="middle"
+              className="fill-current text-[14px]"
+            >
+              {t("yAxis")}
+            </text>
+            {data.series.map((s, i) => (
+              <SeriesLines
+                key={s.plantedOn}
+                series={s}
+                x={x}
+                y={y}
+                dash={s.current ? undefined : OTHER_DASH[i % OTHER_DASH.length]}
               />
-              <circle
-                cx={x(data.today)}
-                cy={y(todayPoint.cumulativeGddF)}
-                r={6}
-                className="fill-white stroke-soil-900"
-                strokeWidth={2.5}
-              />
-              <text
-                x={x(data.today) + (x(data.today) > PLOT.x1 - 140 ? -10 : 10)}
-                y={y(todayPoint.cumulativeGddF) - 10}
-                textAnchor={x(data.today) > PLOT.x1 - 140 ? "end" : "start"}
-                className="fill-current text-[12px] font-bold"
-              >
-                {t("todayLabel", { stage: stageText })}
-              </text>
-            </g>
-          ) : null}
-        </svg>
+            ))}
+            {current ? <ProjectedLabel series={current} x={x} y={y} label={t("projectedLabel")} /> : null}
+            {todayPoint ? (
+              <g>
+                <line
+                  x1={x(data.today)}
+                  x2={x(data.today)}
+                  y1={PLOT.y0}
+                  y2={PLOT.y1}
+                  className="stroke-soil-700"
+                  strokeDasharray="3 3"
+                />
+                <circle
+                  cx={x(data.today)}
+                  cy={y(todayPoint.cumulativeGddF)}
+                  r={6}
+                  className="fill-white stroke-soil-900"
+                  strokeWidth={2.5}
+                />
+                <text
+                  x={x(data.today) + (x(data.today) > PLOT.x1 - 140 ? -10 : 10)}
+                  y={y(todayPoint.cumulativeGddF) - 10}
+                  textAnchor={x(data.today) > PLOT.x1 - 140 ? "end" : "start"}
+                  className="fill-current text-[14px] font-bold"
+                >
+                  {t("todayLabel", { stage: stageText })}
+                </text>
+              </g>
+            ) : null}
+          </svg>
+        </div>
         <figcaption className="mt-2 text-sm">
           <ul className="flex flex-wrap gap-x-6 gap-y-1">
             {data.series.map((s) => (
@@ -289,7 +291,7 @@ function ProjectedLabel({
       x={x(last.date) - 4}
       y={y(last.cumulativeGddF) + 18}
       textAnchor="end"
-      className="fill-soil-700 text-[12px] italic"
+      className="fill-soil-700 text-[14px] italic"
     >
       {label}
     </text>
