@@ -292,6 +292,16 @@ describe("PATCH /api/users/[id]", () => {
     expect(await userRow(user.id)).toEqual({ role: "rep", regionId: sandhollow, status: "active" });
   });
 
+  it("answers a supervisor 404 for a user of another region, as if there were none", async () => {
+    const user = await fixtureUser({ name: "Ottilie Brandt", role: "rep", regionId: upperMesa });
+    const res = await (await signedInAs("supervisor")).json(`/api/users/${user.id}`, "PATCH", {
+      role: "admin",
+    });
+    expect(res.status).toBe(404);
+    expect((await res.json()).error).toMatch(/no such user/i);
+    expect(await userRow(user.id)).toEqual({ role: "rep", regionId: upperMesa, status: "active" });
+  });
+
   it("answers 404 JSON for a non-uuid id and for an unknown user", async () => {
     for (const id of ["not-a-uuid", "1", "' or 1=1 --", randomUUID()]) {
       const res = await admin.json(`/api/users/${encodeURIComponent(id)}`, "PATCH", { role: "rep" });

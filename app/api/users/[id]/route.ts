@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { findAdminUser, updateUser } from "@/db/queries/admin-users";
 import { idSchema, userUpdateSchema } from "@/lib/admin/schemas";
-import { can } from "@/lib/auth/permissions";
+import { can, refusalStatus } from "@/lib/auth/permissions";
 import { authenticate, forbidden, handle, jsonError, notFoundJson, parseJson } from "@/lib/http";
 
 type Ctx = { params: Promise<{ id: string }> };
@@ -19,7 +19,12 @@ export const PATCH = handle<Ctx>("PATCH /api/users/[id]", async (req, ctx) => {
   if (!id.success) return notFoundJson("user");
   const target = await findAdminUser(id.data);
   if (!target) return notFoundJson("user");
-  if (!can(auth.user, "write", { kind: "user", regionId: target.regionId })) return forbidden();
+  const resource = { kind: "user", regionId: target.regionId } as const;
+  if (!can(auth.user, "write", resource)) {
+    // A supervisor is not told about another region's users; roles without the user admin at all get 403.
+    const hidden = auth.user.role === "supervisor" && refusalStatus(auth.user, resource) === 404;
+    return hidden ? notFoundJson("user") : forbidden();
+  }
 
   const body = await parseJson(req, userUpdateSchema);
   if (!body.ok) return body.response;
