@@ -99,7 +99,12 @@ export async function DigsPanel({ digs, headingId }: { digs: readonly DigRootInd
   return (
     <>
       <figure className="mt-3">
-        <div className="overflow-x-auto">
+        <section
+          className="overflow-x-auto"
+          aria-label={t("chartScroll")}
+          // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrollable chart must be reachable by keyboard
+          tabIndex={0}
+        >
           <svg
             viewBox={`0 0 ${CHART.width} ${CHART.height}`}
             role="img"
@@ -161,7 +166,7 @@ export async function DigsPanel({ digs, headingId }: { digs: readonly DigRootInd
               );
             })}
           </svg>
-        </div>
+        </section>
         <figcaption className="mt-2 text-sm">
           <p className="sr-only">{t("legendHeading")}</p>
           <ul className="flex flex-wrap gap-x-6 gap-y-2">
@@ -181,7 +186,12 @@ export async function DigsPanel({ digs, headingId }: { digs: readonly DigRootInd
       </figure>
       <details className="mt-3">
         <summary className="cursor-pointer py-2 font-semibold">{t("tableSummary")}</summary>
-        <div className="overflow-x-auto">
+        <section
+          className="overflow-x-auto"
+          aria-label={t("tableSummary")}
+          // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrollable table must be reachable by keyboard
+          tabIndex={0}
+        >
           <table className="min-w-full text-sm">
             <caption className="text-left text-soil-700">{t("tableCaption")}</caption>
             <thead>
@@ -211,7 +221,7 @@ export async function DigsPanel({ digs, headingId }: { digs: readonly DigRootInd
               ))}
             </tbody>
           </table>
-        </div>
+        </section>
       </details>
     </>
   );

@@ -69,7 +69,12 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
       </p>
       {w.irrigated ? <p className="notice-caution mt-2">{t("irrigated")}</p> : null}
       <figure className="mt-4">
-        <div className="overflow-x-auto">
+        <section
+          className="overflow-x-auto"
+          aria-label={t("chartScroll")}
+          // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrollable chart must be reachable by keyboard
+          tabIndex={0}
+        >
           <svg
             viewBox={`0 0 ${CHART.width} ${CHART.height}`}
             role="img"
@@ -176,7 +181,7 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
               </g>
             ) : null}
           </svg>
-        </div>
+        </section>
         <figcaption className="mt-2 text-sm">
           <ul className="flex flex-wrap gap-x-6 gap-y-1">
             {data.series.map((s) => (
@@ -194,7 +199,12 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
       </figure>
       <details className="mt-3">
         <summary className="cursor-pointer py-2 font-semibold">{t("tableSummary")}</summary>
-        <div className="overflow-x-auto">
+        <section
+          className="overflow-x-auto"
+          aria-label={t("tableSummary")}
+          // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrollable table must be reachable by keyboard
+          tabIndex={0}
+        >
           <table className="min-w-full text-sm">
             <caption className="text-left text-soil-700">{t("tableCaption")}</caption>
             <thead>
@@ -228,7 +238,7 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
               ))}
             </tbody>
           </table>
-        </div>
+        </section>
       </details>
       <p className="notice-caution mt-3 text-sm">{t("caution")}</p>
     </>
