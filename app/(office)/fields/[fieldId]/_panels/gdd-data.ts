@@ -32,6 +32,8 @@ export type GddPanelData =
       kind: "curve";
       series: GddSeries[];
       window: DigWindow;
+      /** True when today's stage used projected days (as Today marks it). */
+      todayProjected: boolean;
       plantedOn: string;
       today: string;
       weatherEndsOn: string;
@@ -119,6 +121,7 @@ export function gddPanelData(
       kind: "curve",
       series,
       window: status.window,
+      todayProjected: status.projected,
       plantedOn: status.plantedOn,
       today,
       weatherEndsOn: status.weatherEndsOn,

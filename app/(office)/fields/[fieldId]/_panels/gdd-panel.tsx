@@ -46,7 +46,7 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
     stage: stageText,
     gdd: gdd(w.gddF),
     date: day(data.today),
-    projected: w.projected ? "yes" : "no",
+    projected: data.todayProjected ? "yes" : "no",
   });
   const windowText =
     opens && closes
@@ -67,6 +67,7 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
           ? t("projectionRule", { gdd: format.number(data.normalGddPerDay, { maximumFractionDigits: 1 }) })
           : null}
       </p>
+      {w.digNow ? <p className="notice-ok mt-2 font-semibold">{t("digNow")}</p> : null}
       {w.irrigated ? <p className="notice-caution mt-2">{t("irrigated")}</p> : null}
       <figure className="mt-4">
         <section
