@@ -1,8 +1,9 @@
 import "server-only";
-import type { PlantingPatch } from "@/lib/records/schemas";
+import { randomUUID } from "node:crypto";
+import type { PlantingCreate, PlantingPatch } from "@/lib/records/schemas";
 import { db } from "../client";
 import type { Planting } from "../schema";
-import { updateVersioned } from "./versioning";
+import { insertVersioned, updateVersioned } from "./versioning";
 
 // A live planting by id, whoever asks; callers check `can` with its account's access.
 export async function findPlanting(id: string): Promise<Planting | undefined> {
@@ -20,4 +21,28 @@ export function updatePlanting(
   change: { regionId: string; actorId: string },
 ) {
   return updateVersioned("planting", id, patch, change);
+}
+
+// A field's live plantings, newest first.
+export async function listPlantings(fieldId: string): Promise<Planting[]> {
+  return db
+    .selectFrom("planting")
+    .selectAll()
+    .where("fieldId", "=", fieldId)
+    .where("deletedAt", "is", null)
+    .orderBy("plantedOn", "desc")
+    .orderBy("createdAt", "desc")
+    .execute();
+}
+
+export function createPlanting(
+  field: { id: string; accountId: string },
+  values: PlantingCreate,
+  change: { regionId: string; actorId: string },
+) {
+  return insertVersioned(
+    "planting",
+    { id: randomUUID(), fieldId: field.id, accountId: field.accountId, ...values },
+    change,
+  );
 }

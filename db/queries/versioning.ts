@@ -1,5 +1,5 @@
 import "server-only";
-import { type Kysely, type Selectable, sql, type Transaction } from "kysely";
+import { type Insertable, type Kysely, type Selectable, sql, type Transaction } from "kysely";
 import { db } from "../client";
 import type { Database } from "../schema";
 
@@ -75,4 +75,31 @@ export async function updateVersioned<T extends VersionedTable>(
       .executeTakeFirstOrThrow();
   });
   return row as Selectable<Database[T]> | undefined;
+}
+
+// Inserts one row in one transaction with the region's next version, recording that version under
+// every column given. Returns the row as stored.
+export async function insertVersioned<T extends VersionedTable>(
+  table: T,
+  values: Omit<Insertable<Database[T]>, "version" | "fieldVersions" | "createdBy" | "updatedBy">,
+  { regionId, actorId }: Change,
+): Promise<Selectable<Database[T]>> {
+  const row = await db.transaction().execute(async (trx) => {
+    // biome-ignore lint/suspicious/noExplicitAny: as in updateVersioned
+    const anyTrx = trx as unknown as Kysely<any>;
+    const version = await nextVersion(trx, regionId);
+    const fieldVersions = Object.fromEntries(Object.keys(values).map((column) => [column, version]));
+    return anyTrx
+      .insertInto(table as string)
+      .values({
+        ...values,
+        version,
+        fieldVersions: JSON.stringify(fieldVersions),
+        createdBy: actorId,
+        updatedBy: actorId,
+      })
+      .returningAll()
+      .executeTakeFirstOrThrow();
+  });
+  return row as Selectable<Database[T]>;
 }

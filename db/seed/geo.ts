@@ -1,22 +1,21 @@
 import "server-only";
+import { AUTHALIC_RADIUS_M, type GeoJsonPolygon, type LonLat } from "@/lib/geo/area";
 
-// Small geometry for the demo fields: a local grid in feet (x east, y north) laid on the sphere, the
-// area of a lon/lat ring and its centroid.
+// Small geometry for the demo fields: a local grid in feet (x east, y north) laid on the sphere; area
+// and centroid come from lib/geo/area.ts.
 
-/** Radius of the sphere with the WGS 84 ellipsoid's surface area (authalic radius), metres. */
-export const AUTHALIC_RADIUS_M = 6_371_007.2;
 /** One international foot, metres (exact by definition). */
 const M_PER_FT = 0.3048;
-/** One international acre, square metres (exact: 43,560 ft² × 0.3048²). */
-export const SQUARE_METERS_PER_ACRE = 4046.8564224;
 
-/** A [longitude, latitude] pair in degrees, GeoJSON order. */
-export type LonLat = [number, number];
-
-export interface GeoJsonPolygon {
-  type: "Polygon";
-  coordinates: LonLat[][];
-}
+export {
+  AUTHALIC_RADIUS_M,
+  type GeoJsonPolygon,
+  type LonLat,
+  polygonAreaAcres,
+  polygonCentroid,
+  ringAreaSquareMeters,
+  SQUARE_METERS_PER_ACRE,
+} from "@/lib/geo/area";
 
 export interface GridOrigin {
   lat: number;
@@ -49,58 +48,6 @@ export function gridPolygon(
   return { type: "Polygon", coordinates: [ring] };
 }
 
-/**
- * Area of a closed lon/lat ring on the sphere, square metres: |R²/2 · Σ (λ[i+1] − λ[i−1]) · sin φ[i]|
- * (Chamberlain and Duquette, "Some Algorithms for Polygons on a Sphere", JPL Publication 07-03, 2007).
- * On the authalic sphere this matches the ellipsoidal area of a field-sized polygon to a small
- * fraction of a percent, ample for acres.
- */
-export function ringAreaSquareMeters(ring: readonly LonLat[]): number {
-  const pts = openRing(ring);
-  const n = pts.length;
-  if (n < 3) return 0;
-  let sum = 0;
-  for (let i = 0; i < n; i++) {
-    const prev = pts[(i + n - 1) % n]!;
-    const here = pts[i]!;
-    const next = pts[(i + 1) % n]!;
-    sum += rad(next[0] - prev[0]) * Math.sin(rad(here[1]));
-  }
-  return Math.abs((sum * AUTHALIC_RADIUS_M * AUTHALIC_RADIUS_M) / 2);
-}
-
-/** Area of a GeoJSON polygon (exterior ring less holes), acres. */
-export function polygonAreaAcres(polygon: GeoJsonPolygon): number {
-  const [outer, ...holes] = polygon.coordinates;
-  if (!outer) return 0;
-  const m2 = ringAreaSquareMeters(outer) - holes.reduce((sum, h) => sum + ringAreaSquareMeters(h), 0);
-  return m2 / SQUARE_METERS_PER_ACRE;
-}
-
-/**
- * Area-weighted centroid of the exterior ring, computed on a flat projection about the ring's first
- * corner (exact enough for a field a mile across), as { lat, lon } in degrees.
- */
-export function polygonCentroid(polygon: GeoJsonPolygon): { lat: number; lon: number } {
-  const pts = openRing(polygon.coordinates[0] ?? []);
-  const first = pts[0];
-  if (!first) throw new Error("polygon has no corners");
-  const k = Math.cos(rad(first[1]));
-  const xy = pts.map(([lon, lat]) => [(lon - first[0]) * k, lat - first[1]] as const);
-  let twiceArea = 0;
-  let cx = 0;
-  let cy = 0;
-  for (let i = 0; i < xy.length; i++) {
-    const [x0, y0] = xy[i]!;
-    const [x1, y1] = xy[(i + 1) % xy.length]!;
-    const cross = x0 * y1 - x1 * y0;
-    twiceArea += cross;
-    cx += (x0 + x1) * cross;
-    cy += (y0 + y1) * cross;
-  }
-  return { lat: first[1] + cy / (3 * twiceArea), lon: first[0] + cx / (3 * twiceArea) / k };
-}
-
 /** Whether (x, y) lies inside the polygon given by its corners (even–odd rule, any units). */
 export function insideCorners(
   corners: readonly (readonly [number, number])[],
@@ -114,11 +61,4 @@ export function insideCorners(
     if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) inside = !inside;
   }
   return inside;
-}
-
-function openRing(ring: readonly LonLat[]): LonLat[] {
-  const last = ring[ring.length - 1];
-  const first = ring[0];
-  const closed = ring.length > 1 && first && last && first[0] === last[0] && first[1] === last[1];
-  return closed ? ring.slice(0, -1) : [...ring];
 }

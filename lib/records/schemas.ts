@@ -92,6 +92,8 @@ export const plantingFields = {
   notes: optionalText("notes", 4000),
 };
 
+export const plantingCreateSchema = z.strictObject(plantingFields);
+
 export const plantingUpdateSchema = z
   .strictObject(plantingFields)
   .partial()
@@ -107,6 +109,12 @@ export const fertilizerPassFields = {
   intendedBelowIn: boundedNumber("distance below the seed", RECORD_LIMITS.belowIn, "in").nullable(),
   notes: optionalText("notes", 4000),
 };
+
+// A new pass belongs to one planting of the field, or to the whole field (null).
+export const fertilizerPassCreateSchema = z.strictObject({
+  ...fertilizerPassFields,
+  plantingId: z.guid({ error: "Choose a planting of this field, or the whole field." }).nullable(),
+});
 
 export const fertilizerPassUpdateSchema = z
   .strictObject(fertilizerPassFields)
@@ -162,6 +170,8 @@ export const productCreateSchema = z
 
 export type AccountPatch = z.infer<typeof accountUpdateSchema>;
 export type FieldPatch = z.infer<typeof fieldUpdateSchema>;
+export type PlantingCreate = z.infer<typeof plantingCreateSchema>;
 export type PlantingPatch = z.infer<typeof plantingUpdateSchema>;
+export type FertilizerPassCreate = z.infer<typeof fertilizerPassCreateSchema>;
 export type FertilizerPassPatch = z.infer<typeof fertilizerPassUpdateSchema>;
 export type ProductCreate = z.infer<typeof productCreateSchema>;
