@@ -11,6 +11,7 @@ import map from "./messages/en/map.json";
 import fieldPage from "./messages/en/fieldPage.json";
 import reports from "./messages/en/reports.json";
 import cases from "./messages/en/cases.json";
+import caseMail from "./messages/en/caseMail.json";
 import grower from "./messages/en/grower.json";
 
 // One catalog per area, merged into namespaces; add a new area's file here.
@@ -29,6 +30,7 @@ const catalogs = {
     fieldPage,
     reports,
     cases,
+    caseMail,
     grower,
   },
 } as const;

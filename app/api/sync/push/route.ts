@@ -1,5 +1,6 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
+import { notifyOpenedCases } from "@/lib/cases/notify";
 import { authenticate, handle, jsonError, parseJson, zodIssues } from "@/lib/http";
 import { PROTOCOL_VERSION, SCHEMA_VERSION } from "@/sync/protocol";
 import { checkVersions } from "@/sync/server/pull";
@@ -60,7 +61,8 @@ export const POST = handle("POST /api/sync/push", async (req) => {
         ),
       );
     case "ok":
-      // outcome.openedCaseIds: the injury cases this push opened, for the supervisor notice (issue 7).
+      // The push has committed: tell the region's supervisors of the cases it opened (never fails it).
+      await notifyOpenedCases(outcome.openedCaseIds);
       return noStore(NextResponse.json(outcome.response));
   }
 });
