@@ -4,6 +4,7 @@ import { getTranslations } from "next-intl/server";
 import { type AccountSummary, listAccountSummaries } from "@/db/queries/accounts";
 import { countUsersByStatus } from "@/db/queries/admin-users";
 import { requirePageUser } from "@/lib/auth/session";
+import { GrowerHome } from "./_components/grower-home";
 
 export const metadata: Metadata = { title: "Home" };
 
@@ -35,6 +36,8 @@ export default async function HomePage() {
       </section>
     );
   }
+
+  if (user.role === "grower") return <GrowerHome user={user} />;
 
   const accounts = await listAccountSummaries(user);
   const role = user.role;

@@ -10,6 +10,7 @@ export interface DigDetail {
   id: string;
   fieldId: string;
   fieldName: string;
+  fieldBoundary: unknown;
   accountId: string;
   accountName: string;
   repId: string | null;
@@ -50,6 +51,7 @@ export async function findDigDetail(id: string): Promise<DigDetail | undefined> 
       "digSite.id",
       "digSite.fieldId",
       "field.name as fieldName",
+      "field.boundary as fieldBoundary",
       "digSite.accountId",
       "account.name as accountName",
       "digSite.repId",

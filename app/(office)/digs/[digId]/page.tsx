@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getFormatter, getTranslations } from "next-intl/server";
+import { PointMap, type PolygonGeometry } from "@/app/(office)/_components/map";
 import { findAccountAccess } from "@/db/queries/access";
 import {
   findDigCase,
@@ -13,6 +14,7 @@ import {
 import type { DigAssessment, Finding, Severity } from "@/lib/agronomy";
 import { can } from "@/lib/auth/permissions";
 import { requirePageUser } from "@/lib/auth/session";
+import { env } from "@/lib/env";
 import { stageOfCollars } from "@/lib/digs/assessment";
 import { isRecordId } from "@/lib/records/schemas";
 import { presignedGetUrl } from "@/lib/storage/s3";
@@ -38,6 +40,12 @@ function storedAssessment(value: unknown): DigAssessment | null {
   if (typeof a.siteIndex !== "number" || typeof a.leafCollars !== "number") return null;
   if (!Array.isArray(a.plants) || !Array.isArray(a.audit) || !Array.isArray(a.flags)) return null;
   return a as DigAssessment;
+}
+
+function polygonOf(boundary: unknown): PolygonGeometry | null {
+  if (!boundary || typeof boundary !== "object") return null;
+  const type = (boundary as { type?: unknown }).type;
+  return type === "Polygon" || type === "MultiPolygon" ? (boundary as PolygonGeometry) : null;
 }
 
 export default async function DigPage({ params }: { params: Promise<{ digId: string }> }) {
@@ -119,6 +127,17 @@ export default async function DigPage({ params }: { params: Promise<{ digId: str
               })}
               {dig.accuracyM !== null ? ` (${t("accuracy", { m: num(dig.accuracyM, 1) })})` : null}
             </p>
+          ) : null}
+          {dig.latitude !== null && dig.longitude !== null ? (
+            <div className="mt-3">
+              <PointMap
+                latitude={dig.latitude}
+                longitude={dig.longitude}
+                boundary={polygonOf(dig.fieldBoundary)}
+                tileUrl={env.MAP_TILE_URL}
+                tileAttribution={env.MAP_TILE_ATTRIBUTION}
+              />
+            </div>
           ) : (
             <p className="mt-2 text-soil-700">{t("noLocation")}</p>
           )}
