@@ -14,6 +14,14 @@ const fieldId = randomUUID();
 const plantingId = randomUUID();
 const passId = randomUUID();
 const fieldName = `E2E field page ${fieldId.slice(0, 8)}`;
+// An invented boundary, so the page draws its map.
+const BOX = [
+  [-120.393, 36.879],
+  [-120.388, 36.879],
+  [-120.388, 36.882],
+  [-120.393, 36.882],
+  [-120.393, 36.879],
+];
 
 test.beforeAll(async () => {
   const account = await db
@@ -34,7 +42,16 @@ test.beforeAll(async () => {
     .executeTakeFirstOrThrow();
   await db
     .insertInto("field")
-    .values({ id: fieldId, accountId: account.id, name: fieldName, soilTexture: "medium" })
+    .values({
+      id: fieldId,
+      accountId: account.id,
+      name: fieldName,
+      soilTexture: "medium",
+      boundary: JSON.stringify({ type: "Polygon", coordinates: [BOX] }),
+      areaAcres: 40,
+      centroidLat: 36.8805,
+      centroidLon: -120.3905,
+    })
     .execute();
   await db
     .insertInto("planting")
@@ -122,7 +139,10 @@ test("the field page has no serious or critical accessibility violations", async
   await page.goto(`/fields/${fieldId}`);
   await expect(page.getByRole("heading", { level: 2, name: "Fertilizer program" })).toBeVisible();
   // Open the forms so they are checked too.
+  await expect(page.locator(".leaflet-container").first()).toBeVisible();
   await page.getByText("Add a fertilizer pass").click();
+  await page.getByText("Draw the boundary").click();
+  await expect(page.locator(".leaflet-container")).toHaveCount(2);
   await page.getByText("Edit planting E2E 104-day (2026-04-20)").click();
   const result = await new AxeBuilder({ page }).analyze();
   const serious = result.violations
