@@ -16,7 +16,10 @@ import { nextVersion } from "./versioning";
 // The write side of injury cases: one workflow action (lib/cases/workflow.ts) applied in ONE
 // transaction under the case row's lock — the case row changes with the region's next sync version
 // and exactly one injury_case_event row records who did what. The event table is append-only in
-// PostgreSQL (a trigger refuses UPDATE, DELETE and TRUNCATE), so the timeline is the audit trail.
+// PostgreSQL (a trigger refuses UPDATE, DELETE and TRUNCATE from every role), so the timeline is the
+// audit trail. The app connects as the owner of its tables (scripts/services.ts), so privileges can't
+// do this (an owner may always grant itself UPDATE again): the trigger is the enforcement, and only
+// DDL by the owner (disabling or dropping the trigger) gets past it.
 
 export interface CaseSummary {
   id: string;

@@ -322,12 +322,15 @@ describe("e-mail", () => {
     if (!match) throw new Error(`no case link in "${mail.subject}"`);
     return new URL(match[0]);
   };
-  const expectLinkTo = (mail: CaughtMail, caseId: string) => {
+  // The link points at the case page of this app, and opens it for the person it was sent to.
+  const expectLinkTo = async (mail: CaughtMail, caseId: string, reader: ApiClient) => {
     const link = linkOf(mail);
     expect(link.origin).toBe(new URL(testEnv.appUrl).origin);
     expect(link.pathname).toBe(`/cases/${caseId}`);
     expect(mail.html).toContain(`href="${link.href}"`);
-    return link;
+    const page = await reader.fetch(link.pathname);
+    expect(page.status, `${link.pathname} for ${mail.to[0]?.address}`).toBe(200);
+    expect(await page.text()).toContain(`Sync Shared Farm ${mf.suffix}`);
   };
 
   // A fixture of its own, so these people get no other case's e-mail.
@@ -346,7 +349,7 @@ describe("e-mail", () => {
     const [opened] = await waitForMail(mf.users.supervisor.email, 1);
     expect(opened!.subject).toMatch(/New burn case \(critical\)/);
     expect(opened!.text).toContain("Sync Shared Farm");
-    expectLinkTo(opened!, caseId);
+    await expectLinkTo(opened!, caseId, mapi.supervisor);
     expect((await timeline(mapi.supervisor, caseId)).status).toBe(200);
     // Only the case's own region is told.
     expect(await mailTo(demoSupervisor.email)).toHaveLength(elsewhereBefore);
@@ -362,7 +365,7 @@ describe("e-mail", () => {
     const [toRep] = await waitForMail(mf.users.repA.email, 1);
     expect(toRep!.subject).toMatch(/decided: injury confirmed/);
     expect(toRep!.text).toContain("Seed-placed 10-34-0 over the safe rate; burn on every plant.");
-    expectLinkTo(toRep!, caseId);
+    await expectLinkTo(toRep!, caseId, mapi.repA);
     const repView = await timeline(mapi.repA, caseId);
     expect(repView.status).toBe(200);
     expect(repView.body.case).toMatchObject({ status: "decided", decision: "injury_confirmed" });
@@ -372,7 +375,7 @@ describe("e-mail", () => {
     expect(shared.status).toBe(201);
     const [toGrower] = await waitForMail(mf.users.grower.email, 1);
     expect(toGrower!.subject).toMatch(/shared with you/);
-    expectLinkTo(toGrower!, caseId);
+    await expectLinkTo(toGrower!, caseId, mapi.grower);
     const growerView = await timeline(mapi.grower, caseId);
     expect(growerView.status).toBe(200);
     expect(growerView.body.role).toBe("commenter");

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { after, NextResponse } from "next/server";
 import { z } from "zod";
 import { notifyOpenedCases } from "@/lib/cases/notify";
 import { authenticate, handle, jsonError, parseJson, zodIssues } from "@/lib/http";
@@ -61,8 +61,9 @@ export const POST = handle("POST /api/sync/push", async (req) => {
         ),
       );
     case "ok":
-      // The push has committed: tell the region's supervisors of the cases it opened (never fails it).
-      await notifyOpenedCases(outcome.openedCaseIds);
+      // The push has committed: the region's supervisors hear of the cases it opened once the device
+      // has its answer (a slow or failing mail server never holds up or fails a push).
+      if (outcome.openedCaseIds.length > 0) after(() => notifyOpenedCases(outcome.openedCaseIds));
       return noStore(NextResponse.json(outcome.response));
   }
 });

@@ -1,4 +1,4 @@
-import { NextResponse } from "next/server";
+import { after, NextResponse } from "next/server";
 import { applyCaseAction, findCaseTimeline } from "@/db/queries/case-actions";
 import { caseActionSchema } from "@/lib/cases/workflow";
 import { notifyCase } from "@/lib/cases/notify";
@@ -20,7 +20,7 @@ export const GET = handle<Ctx>("GET /api/cases/[id]/events", async (_req, ctx) =
 
 // POST /api/cases/:id/events { action, …, expectedVersion }: one workflow step (lib/cases/workflow.ts),
 // written with its event in one transaction (db/queries/case-actions.ts); the e-mail of a decision or
-// a share goes out after the commit.
+// a share goes out after the commit and the answer.
 export const POST = handle<Ctx>("POST /api/cases/[id]/events", async (req, ctx) => {
   const auth = await authenticate();
   if (!auth.ok) return auth.response;
@@ -35,7 +35,8 @@ export const POST = handle<Ctx>("POST /api/cases/[id]/events", async (req, ctx) 
     }
     return jsonError(result.status, result.error, result.status === 422 ? result.issues : undefined);
   }
-  if (body.data.action === "decide") await notifyCase("decided", id);
-  if (body.data.action === "share" && body.data.shared) await notifyCase("shared", id);
+  // After the answer: a slow or failing mail server never holds up or undoes the committed step.
+  if (body.data.action === "decide") after(() => notifyCase("decided", id));
+  if (body.data.action === "share" && body.data.shared) after(() => notifyCase("shared", id));
   return NextResponse.json({ case: result.case, event: result.event }, { status: 201 });
 });
