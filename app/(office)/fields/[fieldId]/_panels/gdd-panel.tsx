@@ -172,9 +172,10 @@ export async function GddPanel({ data, headingId }: { data: GddPanelData; headin
                   strokeWidth={2.5}
                 />
                 <text
-                  x={x(data.today) + (x(data.today) > PLOT.x1 - 140 ? -10 : 10)}
-                  y={y(todayPoint.cumulativeGddF) - 10}
-                  textAnchor={x(data.today) > PLOT.x1 - 140 ? "end" : "start"}
+                  // Above and left of the point, clear of the rising line; right of it near the left edge.
+                  x={x(data.today) + (x(data.today) < PLOT.x0 + 120 ? 10 : -10)}
+                  y={y(todayPoint.cumulativeGddF) - 12}
+                  textAnchor={x(data.today) < PLOT.x0 + 120 ? "start" : "end"}
                   className="fill-current text-[14px] font-bold"
                 >
                   {t("todayLabel", { stage: stageText })}
