@@ -114,6 +114,9 @@ describe("who sees and does what", () => {
     const rep = await timeline(api.repA, caseId);
     expect(rep.status).toBe(200);
     expect(rep.body.role).toBe("commenter");
+    const admin = await timeline(await signedInAs("admin"), caseId);
+    expect(admin.status).toBe(200);
+    expect(admin.body.role).toBe("decider");
   });
 
   it("a supervisor of another region, a rep of other farms and the grower before sharing get 404", async () => {
@@ -392,6 +395,15 @@ describe("e-mail", () => {
       ).status,
     ).toBe(201);
     expect((await act(mapi.grower, caseId, { action: "close", expectedVersion: v })).status).toBe(403);
+
+    // Unshared again, the case is out of the grower's sight, and nobody is e-mailed about that.
+    const unshared = await act(mapi.supervisor, caseId, {
+      action: "share",
+      shared: false,
+      expectedVersion: v,
+    });
+    expect(unshared.status).toBe(201);
+    expect((await timeline(mapi.grower, caseId)).status).toBe(404);
 
     // Each person got exactly one e-mail about this case.
     for (const email of [mf.users.supervisor.email, mf.users.repA.email, mf.users.grower.email]) {
