@@ -87,7 +87,7 @@ test("a grower sees their farm, opens a dig, acknowledges the recommendation and
   await page.context().close();
 });
 
-test("the grower home, the digs table and a dig page have no serious or critical axe violations", async ({
+test("the grower home, the digs and fields tables and a dig page have no serious or critical axe violations", async ({
   browser,
 }) => {
   const page = await growerHome(browser);
@@ -105,6 +105,10 @@ test("the grower home, the digs table and a dig page have no serious or critical
     "aria-sort",
     "ascending",
   );
+  expect(await seriousViolations(page)).toEqual([]);
+
+  await page.goto("/fields");
+  await expect(page.getByRole("heading", { level: 1, name: "Fields" })).toBeVisible();
   expect(await seriousViolations(page)).toEqual([]);
 
   await page.goto(digHref!);

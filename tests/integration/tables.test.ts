@@ -259,6 +259,9 @@ describe("the pages", () => {
     const bad = await clients.rep1!.fetch("/digs?sort=%27;drop&page=zero&pageSize=9999&from=nope");
     expect(bad.status).toBe(200);
     expect(await bad.text()).toContain("were not valid and were ignored");
+    const past = await clients.rep1!.fetch(`/digs?accountId=${fx.accountId}&page=9`);
+    expect(past.status).toBe(307);
+    expect(past.headers.get("location")).toContain(`/digs?accountId=${fx.accountId}&page=2`);
     for (const path of ["/fields?sort=nope", "/accounts?dir=up"]) {
       expect((await clients.rep1!.fetch(path)).status, path).toBe(200);
     }

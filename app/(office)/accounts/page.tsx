@@ -9,7 +9,7 @@ import {
   listVisibleRepOptions,
 } from "@/db/queries/tables";
 import { requirePageUser } from "@/lib/auth/session";
-import { parseTableQuery, type SearchParams } from "@/lib/tables/params";
+import { pageCount, parseTableQuery, type SearchParams, tableHref } from "@/lib/tables/params";
 import {
   FilterForm,
   Pagination,
@@ -41,6 +41,10 @@ export default async function AccountsPage({ searchParams }: { searchParams: Pro
     listAccountTable(user, query),
     listVisibleRepOptions(user),
   ]);
+  // A page past the end (rows were removed, or a hand-made link) goes to the last page.
+  if (rows.length === 0 && query.page > pageCount(total, query.pageSize)) {
+    redirect(tableHref(BASE, query, { page: pageCount(total, query.pageSize) }));
+  }
   const f = query.filters;
   const sortable = (column: (typeof accountTableSpec.sorts)[number], align?: "right") => (
     <SortableHeader

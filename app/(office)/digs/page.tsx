@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { redirect } from "next/navigation";
 import { getFormatter, getTranslations } from "next-intl/server";
 import {
   digTableSpec,
@@ -11,7 +12,7 @@ import {
 } from "@/db/queries/tables";
 import { requirePageUser } from "@/lib/auth/session";
 import { stageOfCollars } from "@/lib/digs/assessment";
-import { parseTableQuery, type SearchParams } from "@/lib/tables/params";
+import { pageCount, parseTableQuery, type SearchParams, tableHref } from "@/lib/tables/params";
 import {
   CheckboxFilterInput,
   DateFilterInput,
@@ -41,6 +42,10 @@ export default async function DigsPage({ searchParams }: { searchParams: Promise
     listVisibleHybridOptions(user),
     listVisibleRepOptions(user),
   ]);
+  // A page past the end (rows were removed, or a hand-made link) goes to the last page.
+  if (rows.length === 0 && query.page > pageCount(total, query.pageSize)) {
+    redirect(tableHref(BASE, query, { page: pageCount(total, query.pageSize) }));
+  }
   const f = query.filters;
   const showCase = user.role !== "grower";
   const sortable = (column: (typeof digTableSpec.sorts)[number], align?: "right") => (

@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { redirect } from "next/navigation";
 import { getFormatter, getTranslations } from "next-intl/server";
 import {
   fieldTableSpec,
@@ -8,7 +9,7 @@ import {
   listVisibleHybridOptions,
 } from "@/db/queries/tables";
 import { requirePageUser } from "@/lib/auth/session";
-import { parseTableQuery, type SearchParams } from "@/lib/tables/params";
+import { pageCount, parseTableQuery, type SearchParams, tableHref } from "@/lib/tables/params";
 import {
   FilterForm,
   Pagination,
@@ -36,6 +37,10 @@ export default async function FieldsPage({ searchParams }: { searchParams: Promi
     listVisibleAccountOptions(user),
     listVisibleHybridOptions(user),
   ]);
+  // A page past the end (rows were removed, or a hand-made link) goes to the last page.
+  if (rows.length === 0 && query.page > pageCount(total, query.pageSize)) {
+    redirect(tableHref(BASE, query, { page: pageCount(total, query.pageSize) }));
+  }
   const f = query.filters;
   const sortable = (column: (typeof fieldTableSpec.sorts)[number], align?: "right") => (
     <SortableHeader
