@@ -316,6 +316,7 @@ function DigLayers({
   const layers = useRef<{ fields: L.GeoJSON; pins: L.LayerGroup } | null>(null);
   const index = useRef<Supercluster<PointProps, ClusterProps> | null>(null);
   const pins = useRef<DigFeature[]>([]);
+  const drawn = useRef(new Map<string, L.Marker>());
   const loadedFor = useRef<{ query: string; bounds: Bounds; truncated: boolean } | null>(null);
   const abort = useRef<AbortController | null>(null);
   const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
@@ -332,7 +333,8 @@ function DigLayers({
     const zoom = Math.round(map.getZoom());
     const items = idx.getClusters([view.west, view.south, view.east, view.north], zoom);
     const tr = tRef.current;
-    group.clearLayers();
+    // Markers still in view stay (an open popup survives the pan it causes); the rest go.
+    const next = new Map<string, L.Marker>();
     let shown = 0;
     let flagged = 0;
     const listed: DigProperties[] = [];
@@ -345,6 +347,11 @@ function DigLayers({
         const { cluster_id: id, point_count: count, flagged: f } = props;
         shown += count;
         flagged += f;
+        const kept = drawn.current.get(`c${id}`);
+        if (kept) {
+          next.set(`c${id}`, kept);
+          continue;
+        }
         const label = tr("pin.cluster", { count, flagged: f });
         const marker = L.marker([lat, lon], { icon: clusterIcon(count, f), title: label, riseOnHover: true });
         const zoomIn = () =>
@@ -355,17 +362,32 @@ function DigLayers({
         });
         group.addLayer(marker);
         marker.getElement()?.setAttribute("aria-label", label);
+        next.set(`c${id}`, marker);
       } else {
         const p = props as PointProps;
         shown += 1;
         if (p.flagged) flagged += 1;
-        if (listed.length < LIST_LIMIT) listed.push(p);
+        const kept = drawn.current.get(`p${p.id}`);
+        if (kept) {
+          next.set(`p${p.id}`, kept);
+          continue;
+        }
         const label = pinLabel(tr, p);
         const marker = L.marker([lat, lon], { icon: pinIcon(p), title: label, riseOnHover: true });
         marker.bindPopup(() => popupHtml(tRef.current, p), { maxWidth: 280 });
         group.addLayer(marker);
         marker.getElement()?.setAttribute("aria-label", label);
+        next.set(`p${p.id}`, marker);
       }
+    }
+    for (const [key, marker] of drawn.current) if (!next.has(key)) group.removeLayer(marker);
+    drawn.current = next;
+    // The text list names the digs in view whether they are drawn alone or inside a cluster.
+    for (const d of pins.current) {
+      if (listed.length >= LIST_LIMIT) break;
+      const [lon, lat] = d.geometry.coordinates;
+      if (lon >= view.west && lon <= view.east && lat >= view.south && lat <= view.north)
+        listed.push(d.properties);
     }
     onView({ shown, flagged, listed });
   }, [map, onView]);
@@ -395,7 +417,9 @@ function DigLayers({
           features: fields,
         } as GeoJSON.FeatureCollection);
         const idx = new Supercluster<PointProps, ClusterProps>({
-          radius: 56,
+          // Radius in screen pixels: supercluster measures it against the tile extent, Leaflet's 256.
+          extent: 256,
+          radius: 60,
           maxZoom: 17,
           map: (p) => ({ flagged: p.flagged ? 1 : 0 }),
           reduce: (acc, p) => {
@@ -404,6 +428,12 @@ function DigLayers({
         });
         idx.load(digs as unknown as PointFeature<PointProps>[]);
         index.current = idx;
+        // Cluster ids belong to one index, and pins may have changed: redraw all but an open popup's.
+        for (const [key, marker] of drawn.current) {
+          if (marker.isPopupOpen()) continue;
+          layers.current?.pins.removeLayer(marker);
+          drawn.current.delete(key);
+        }
         onLoaded({ pins: digs, fields, truncated: data.truncated });
         onStatus("ready");
         if (firstFit.current) {
@@ -437,6 +467,7 @@ function DigLayers({
     return () => {
       fields.remove();
       pinGroup.remove();
+      drawn.current.clear();
       layers.current = null;
       abort.current?.abort();
     };
@@ -497,7 +528,7 @@ function MapFilters({
   const id = useId();
   const set = <K extends keyof Filters>(k: K, v: Filters[K]) => onChange({ ...filters, [k]: v });
   return (
-    <fieldset className="card grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
+    <fieldset className="card grid grid-cols-2 gap-3 lg:grid-cols-3">
       <legend className="px-1 font-semibold">{t("legend")}</legend>
       <div>
         <label className="field-label" htmlFor={`${id}-from`}>
@@ -586,7 +617,7 @@ function MapFilters({
           </select>
         </div>
       ) : null}
-      <div className="flex flex-wrap items-end gap-3">
+      <div className="col-span-2 flex flex-wrap items-end gap-3 lg:col-span-1">
         <label className="flex min-h-tap items-center gap-2 font-semibold">
           <input
             type="checkbox"
