@@ -81,7 +81,7 @@ const OTHER_MATRIX: readonly (readonly [string, OtherCase, Record<RoleKey, numbe
     { admin: 200, supervisor: 403, rep1: 403, grower1: 403 }],
   ["user", { name: "change a user of another region", method: "PATCH", path: () => `/api/users/${fx.userOtherRegion}`,
     body: () => ({ status: "deactivated" }) },
-    { admin: 200, supervisor: 403, rep1: 403, grower1: 403 }],
+    { admin: 200, supervisor: 404, rep1: 403, grower1: 403 }],
   ["region", { name: "list regions", method: "GET", path: () => "/api/regions" },
     { admin: 200, supervisor: 200, rep1: 200, grower1: 403 }],
   ["region", { name: "create a region", method: "POST", path: () => "/api/regions",
