@@ -159,4 +159,24 @@ describe("PUT /api/fields/:id/boundary", () => {
     expect(refused.status).toBe(403);
     expect(await stored(fieldIds.cottonwood)).toEqual(before);
   });
+
+  it("shows the field page to its readers only: another farm's field and a bad id are 404", async () => {
+    expect((await rep1.fetch(`/fields/${fieldIds.cottonwood}`)).status).toBe(404);
+    expect((await rep1.fetch("/fields/not-a-uuid")).status).toBe(404);
+    const own = await rep1.fetch(`/fields/${fieldIds.alder}`);
+    expect(own.status).toBe(200);
+    // The catalog travels to the browser whole, so look for the forms' inputs, not their labels.
+    const ownHtml = await own.text();
+    expect(ownHtml).toContain('type="file"');
+    expect(ownHtml).not.toContain("You can read this field&#x27;s records.");
+    const grower1 = await signedInAs("grower1");
+    const readOnly = await grower1.fetch(`/fields/${fieldIds.alder}`);
+    expect(readOnly.status).toBe(200);
+    const html = await readOnly.text();
+    expect(html).toContain(`Boundary test ${fieldIds.alder}`);
+    // The read-only notice as rendered HTML (the catalog's copy is unescaped JSON).
+    expect(html).toContain("You can read this field&#x27;s records.");
+    expect(html).not.toContain('type="file"');
+    expect(html).not.toContain('name="hybrid"');
+  });
 });

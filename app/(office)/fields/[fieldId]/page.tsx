@@ -2,16 +2,12 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getTranslations } from "next-intl/server";
-import { findAccountAccess } from "@/db/queries/access";
 import { listFertilizerPasses } from "@/db/queries/fertilizer-passes";
-import { findFieldDetail } from "@/db/queries/fields";
 import { listPlantings } from "@/db/queries/plantings";
 import { listProducts } from "@/db/queries/products";
 import type { Planting } from "@/db/schema";
-import { can } from "@/lib/auth/permissions";
-import { requirePageUser } from "@/lib/auth/session";
-import { isRecordId } from "@/lib/records/schemas";
 import { BoundarySection } from "./_components/boundary-section";
+import { loadField } from "./_components/load-field";
 import { NitrogenPanel } from "./_components/nitrogen-panel";
 import { PassAuditView } from "./_components/pass-audit";
 import { PassForm } from "./_components/pass-form";
@@ -23,16 +19,6 @@ type Props = {
   params: Promise<{ fieldId: string }>;
   searchParams: Promise<Record<string, string | string[] | undefined>>;
 };
-
-// The field as its readers may see it: null for a bad id, another farm's field or a deleted one.
-async function loadField(fieldId: string) {
-  const user = await requirePageUser();
-  if (!isRecordId(fieldId)) return null;
-  const field = await findFieldDetail(fieldId);
-  const access = field && (await findAccountAccess(user, field.accountId));
-  if (!field || !access || !can(user, "read", { kind: "field", access })) return null;
-  return { user, field, canEdit: can(user, "write", { kind: "field", access }) };
-}
 
 export async function generateMetadata({ params }: Props): Promise<Metadata> {
   const { fieldId } = await params;
