@@ -15,6 +15,7 @@ import {
   updateFields,
   type Writer,
 } from "@/sync/server/merge";
+import { OPEN_CASE_REASON, openCase } from "@/sync/server/push";
 import { recomputeDig } from "@/sync/server/recompute";
 import { db } from "../client";
 import { nextVersion } from "./versioning";
@@ -215,6 +216,11 @@ export async function settleConflict(
       }
       chosen = choice.choice === "server" ? conflict.serverValue : conflict.clientValue;
       const side = deletedSide.parse(chosen);
+      // The evidence of an open injury case stays until the case is closed (as for a device's delete).
+      const digOfRow = table === "digSite" ? row.id : String(row.digSiteId);
+      if (side.deleted && !row.deletedAt && (await openCase(trx, digOfRow))) {
+        return { ok: false, status: 409, error: OPEN_CASE_REASON };
+      }
       if (side.deleted !== Boolean(row.deletedAt)) await setDeleted(trx, table, row.id, side.deleted, writer);
       const restored = side.record && RECORD_SCHEMAS[table].safeParse(side.record);
       if (!side.deleted && restored?.success) {

@@ -205,7 +205,7 @@ async function writeStep(trx: Trx, step: () => Promise<Outcome>): Promise<Outcom
   }
 }
 
-async function openCase(trx: Trx, digSiteId: string): Promise<boolean> {
+export async function openCase(trx: Trx, digSiteId: string): Promise<boolean> {
   const open = await trx
     .selectFrom("injuryCase")
     .select("id")
@@ -216,7 +216,7 @@ async function openCase(trx: Trx, digSiteId: string): Promise<boolean> {
   return Boolean(open);
 }
 
-const OPEN_CASE_REASON =
+export const OPEN_CASE_REASON =
   "This dig has an open injury case: its dig, plants and photos are kept as evidence until the case is closed.";
 
 // A put of an existing row, live or tombstoned (see merge.ts for the rules).

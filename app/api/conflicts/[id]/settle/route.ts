@@ -1,5 +1,6 @@
-import { NextResponse } from "next/server";
+import { after, NextResponse } from "next/server";
 import { settleConflict, settleConflictSchema } from "@/db/queries/conflicts";
+import { notifyOpenedCases } from "@/lib/cases/notify";
 import { authenticate, handle, jsonError, notFoundJson, parseJson } from "@/lib/http";
 import { isRecordId } from "@/lib/records/schemas";
 
@@ -16,5 +17,8 @@ export const POST = handle<Ctx>("POST /api/conflicts/[id]/settle", async (req, c
   if (!body.ok) return body.response;
   const settled = await settleConflict(auth.user, id, body.data);
   if (!settled.ok) return jsonError(settled.status, settled.error, settled.issues);
+  // A settled value can flag the dig: its case's supervisors hear of it after the answer.
+  const opened = settled.openedCaseId;
+  if (opened) after(() => notifyOpenedCases([opened]));
   return NextResponse.json({ conflict: settled.conflict, recordVersion: settled.recordVersion });
 });
