@@ -76,7 +76,6 @@ async function listDigPins(actor: Actor, f: MapFilters) {
       "digSite.id",
       "digSite.fieldId",
       "field.name as fieldName",
-      "digSite.accountId",
       "account.name as accountName",
       "digSite.dugAt",
       "digSite.latitude",
@@ -166,7 +165,6 @@ export async function findMapFeatures(actor: Actor, filters: MapFilters): Promis
       id: f.id,
       geometry,
       properties: {
-        kind: "field",
         id: f.id,
         name: f.name,
         accountId: f.accountId,
@@ -184,11 +182,9 @@ export async function findMapFeatures(actor: Actor, filters: MapFilters): Promis
       id: p.id,
       geometry: { type: "Point", coordinates: [round6(p.longitude), round6(p.latitude)] },
       properties: {
-        kind: "dig",
         id: p.id,
         fieldId: p.fieldId,
         fieldName: p.fieldName,
-        accountId: p.accountId,
         accountName: p.accountName,
         dugAt: p.dugAt.toISOString(),
         hybrid: p.hybrid,

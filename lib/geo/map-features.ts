@@ -15,7 +15,6 @@ export interface FieldFeature {
   id: string;
   geometry: PolygonGeometry;
   properties: {
-    kind: "field";
     id: string;
     name: string;
     accountId: string;
@@ -25,11 +24,9 @@ export interface FieldFeature {
 }
 
 export interface DigProperties {
-  kind: "dig";
   id: string;
   fieldId: string;
   fieldName: string;
-  accountId: string;
   accountName: string;
   /** ISO 8601 (UTC). */
   dugAt: string;
@@ -52,6 +49,11 @@ export interface DigFeature {
   geometry: { type: "Point"; coordinates: LonLat };
   properties: DigProperties;
 }
+
+/** Fields are the polygons, digs the points. */
+export const isDigFeature = (f: FieldFeature | DigFeature): f is DigFeature => f.geometry.type === "Point";
+export const isFieldFeature = (f: FieldFeature | DigFeature): f is FieldFeature =>
+  f.geometry.type === "Polygon";
 
 export interface MapFeatureCollection {
   type: "FeatureCollection";

@@ -92,9 +92,9 @@ test("a grower sees their own pins on the map and no other farm's, in the page o
   await page.goto("/map");
   // What the map asks for, with the grower's session: their farm's pins only.
   const body = (await (await page.request.get("/api/map?bbox=-180,-90,180,90")).json()) as {
-    features: { id: string; properties: { kind: string; accountName: string } }[];
+    features: { id: string; geometry: { type: string }; properties: { accountName: string } }[];
   };
-  const digs = body.features.filter((f) => f.properties.kind === "dig");
+  const digs = body.features.filter((f) => f.geometry.type === "Point");
   expect(digs.map((d) => d.id).sort()).toEqual(alder.map((d) => d.id).sort());
   expect(new Set(body.features.map((f) => f.properties.accountName))).toEqual(new Set(["Alder Creek Farms"]));
   // The map fits the farm: every pin in view, counted in the live summary, drawn as pins or clusters.

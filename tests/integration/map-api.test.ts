@@ -6,7 +6,7 @@ import type { Kysely } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createDb } from "@/db/client";
 import type { Database, NewDigSite } from "@/db/schema";
-import type { DigFeature, FieldFeature, MapFeatureCollection } from "@/lib/geo/map-features";
+import { isDigFeature, isFieldFeature, type MapFeatureCollection } from "@/lib/geo/map-features";
 import { testEnv } from "../helpers/env";
 import { type ApiClient, signedInAs } from "../helpers/session";
 
@@ -191,8 +191,8 @@ async function getMap(client: ApiClient, query = "") {
   expect(res.status).toBe(200);
   const body = (await res.json()) as MapFeatureCollection;
   expect(body.type).toBe("FeatureCollection");
-  const digs = body.features.filter((f): f is DigFeature => f.properties.kind === "dig");
-  const fields = body.features.filter((f): f is FieldFeature => f.properties.kind === "field");
+  const digs = body.features.filter(isDigFeature);
+  const fields = body.features.filter(isFieldFeature);
   return { digs, fields, digIds: digs.map((d) => d.id).sort(), fieldIds: fields.map((f) => f.id).sort() };
 }
 
@@ -292,7 +292,7 @@ describe("filters and bounds", () => {
     // Only the western half of the box: the alder digs (x < 0.01), not bell's (x = 0.025).
     const west = await rep1.fetch(`/api/map?bbox=${LON0},${LAT0},${LON0 + 0.01},${LAT0 + 0.1}`);
     const westIds = ((await west.json()) as MapFeatureCollection).features
-      .filter((f) => f.properties.kind === "dig")
+      .filter(isDigFeature)
       .map((f) => f.id)
       .sort();
     expect(westIds).toEqual(sorted(fx.digs.alderV3, fx.digs.alderPoor, fx.digs.alderRepFlag));

@@ -6,17 +6,19 @@ import { useTranslations } from "next-intl";
 import { useCallback, useEffect, useId, useMemo, useRef, useState } from "react";
 import { MapContainer, useMap } from "react-leaflet";
 import Supercluster, { type PointFeature } from "supercluster";
-import { type Bounds, clampBounds, formatBounds } from "@/lib/geo/bounds";
+import { type Bounds, clampBounds } from "@/lib/geo/bounds";
 import {
   type DigFeature,
   type DigProperties,
   type FieldFeature,
   indexBand,
+  isDigFeature,
+  isFieldFeature,
   MAX_MAP_PINS,
-  type MapFeatureCollection,
   STAGES,
 } from "@/lib/geo/map-features";
 import { MapBase, type TileProps } from "./map-base";
+import { fetchMap, type MapFilterValues, mapQuery, mapUrl, NO_FILTERS, WORLD } from "./map-data";
 import { MapLegend } from "./map-legend";
 import { clusterSvg, escapeHtml, PIN_SIZE, pinSvg } from "./pin-icons";
 
@@ -34,17 +36,7 @@ export interface DigMapProps extends TileProps {
   accounts?: { id: string; name: string }[];
 }
 
-interface Filters {
-  from: string;
-  to: string;
-  hybrid: string;
-  stage: string;
-  flagged: boolean;
-  accountId: string;
-}
-
-const NO_FILTERS: Filters = { from: "", to: "", hybrid: "", stage: "", flagged: false, accountId: "" };
-const WORLD: Bounds = { west: -180, south: -90, east: 180, north: 90 };
+type Filters = MapFilterValues;
 const FETCH_DEBOUNCE_MS = 250;
 const LIST_LIMIT = 50;
 
@@ -87,20 +79,10 @@ export function DigMap({
     });
   }, [loaded]);
   const rangeError = filters.from !== "" && filters.to !== "" && filters.from > filters.to;
-  const query = useMemo(() => {
-    const q = new URLSearchParams();
-    if (accountId) q.set("accountId", accountId);
-    else if (filters.accountId) q.set("accountId", filters.accountId);
-    if (fieldId) q.set("fieldId", fieldId);
-    if (!rangeError) {
-      if (filters.from) q.set("from", filters.from);
-      if (filters.to) q.set("to", filters.to);
-    }
-    if (filters.hybrid.trim()) q.set("hybrid", filters.hybrid.trim());
-    if (filters.stage) q.set("stage", filters.stage);
-    if (filters.flagged) q.set("flagged", "1");
-    return q.toString();
-  }, [accountId, fieldId, filters, rangeError]);
+  const query = useMemo(
+    () => mapQuery({ accountId, fieldId }, filters, rangeError),
+    [accountId, fieldId, filters, rangeError],
+  );
 
   return (
     <div className="space-y-4">
@@ -400,15 +382,10 @@ function DigLayers({
       const q = queryRef.current;
       onStatus("loading");
       try {
-        const res = await fetch(`/api/map?bbox=${formatBounds(bounds)}${q ? `&${q}` : ""}`, {
-          signal: ac.signal,
-          headers: { accept: "application/json" },
-        });
-        if (!res.ok) throw new Error(`map ${res.status}`);
-        const data = (await res.json()) as MapFeatureCollection;
+        const data = await fetchMap(mapUrl(bounds, q), ac.signal);
         if (ac.signal.aborted) return;
-        const fields = data.features.filter((f): f is FieldFeature => f.properties.kind === "field");
-        const digs = data.features.filter((f): f is DigFeature => f.properties.kind === "dig");
+        const fields = data.features.filter(isFieldFeature);
+        const digs = data.features.filter(isDigFeature);
         loadedFor.current = { query: q, bounds, truncated: data.truncated };
         pins.current = digs;
         layers.current?.fields.clearLayers();
