@@ -197,7 +197,10 @@ test("a supervisor filters the queue, reviews the evidence and decides; the rep 
   browser,
 }) => {
   const fx = await createFixture();
-  const supervisor = await signedIn(browser, fx.supervisor, DESK);
+  const [supervisor, rep] = await Promise.all([
+    signedIn(browser, fx.supervisor, DESK),
+    signedIn(browser, fx.rep),
+  ]);
 
   await supervisor.goto("/cases");
   await expect(supervisor.getByRole("heading", { level: 1, name: "Injury cases" })).toBeVisible();
@@ -238,12 +241,18 @@ test("a supervisor filters the queue, reviews the evidence and decides; the rep 
   await expect(supervisor.locator("header").getByText("Decided", { exact: true })).toBeVisible();
   await expect(supervisor.locator("header").getByText(why)).toBeVisible();
 
-  const rep = await signedIn(browser, fx.rep);
   await rep.goto(`/cases/${fx.criticalCaseId}`);
   await expect(rep.locator("header").getByText("Injury confirmed").first()).toBeVisible();
   await expect(rep.locator("header").getByText(why)).toBeVisible();
   await expect(rep.getByRole("button", { name: "Record the decision" })).toHaveCount(0);
   await expect(rep.locator("[data-event-kind=decision]")).toContainText(why);
+  // On the phone the wide tables scroll inside their boxes; the page itself keeps the screen's width.
+  expect(
+    await rep.evaluate(() => ({
+      fits: document.documentElement.scrollWidth <= window.innerWidth,
+      width: window.innerWidth,
+    })),
+  ).toEqual({ fits: true, width: rep.viewportSize()!.width });
 
   await supervisor.context().close();
   await rep.context().close();
