@@ -38,13 +38,13 @@ export default async function CasePage({ params }: { params: Promise<{ caseId: s
 
   return (
     <article aria-labelledby="case-heading" className="space-y-6">
-      <nav aria-label={t("page.summary")} className="flex flex-wrap gap-3 text-sm">
-        {user.role === "grower" ? null : (
+      {user.role === "grower" ? null : (
+        <p>
           <Link href="/cases" className="font-semibold text-water-700 underline">
             {t("page.back")}
           </Link>
-        )}
-      </nav>
+        </p>
+      )}
       <header className="space-y-3">
         <h1 id="case-heading">{t("page.title", { field: field.name, account: account.name })}</h1>
         <div className="flex flex-wrap items-center gap-2">
