@@ -4,9 +4,16 @@ import type { AccountAccess, Actor } from "@/lib/auth/permissions";
 import { db } from "../client";
 import type { Database } from "../schema";
 
-// How the actor relates to one account, for `can` in lib/auth/permissions.ts.
-export async function findAccountAccess(actor: Actor, accountId: string): Promise<AccountAccess | undefined> {
-  const row = await db
+type Executor = Pick<typeof db, "selectFrom">;
+
+// How the actor relates to one account, for `can` in lib/auth/permissions.ts; inside a transaction
+// when one is given.
+export async function findAccountAccess(
+  actor: Actor,
+  accountId: string,
+  ex: Executor = db,
+): Promise<AccountAccess | undefined> {
+  const row = await ex
     .selectFrom("account")
     .select((eb) => [
       "account.id",

@@ -1,6 +1,6 @@
 import "server-only";
 import { sql } from "kysely";
-import type { AccountAccess, Actor } from "@/lib/auth/permissions";
+import type { Actor } from "@/lib/auth/permissions";
 import {
   type CaseAction,
   type CaseDecision,
@@ -11,6 +11,7 @@ import {
 } from "@/lib/cases/workflow";
 import { db } from "../client";
 import type { CaseStatus, InjuryCase } from "../schema";
+import { findAccountAccess } from "./access";
 import { nextVersion } from "./versioning";
 
 // The write side of injury cases: one workflow action (lib/cases/workflow.ts) applied in ONE
@@ -68,43 +69,6 @@ function summary(row: InjuryCase): CaseSummary {
   };
 }
 
-type Executor = Pick<typeof db, "selectFrom">;
-
-// The actor's relation to the case's account (the rule of db/queries/access.ts), read with the case.
-async function accessTo(ex: Executor, actor: Actor, accountId: string): Promise<AccountAccess | undefined> {
-  const row = await ex
-    .selectFrom("account")
-    .select((eb) => [
-      "account.id",
-      "account.regionId",
-      eb
-        .exists(
-          eb
-            .selectFrom("accountRep")
-            .whereRef("accountRep.accountId", "=", "account.id")
-            .where("accountRep.userId", "=", actor.id),
-        )
-        .as("served"),
-      eb
-        .exists(
-          eb
-            .selectFrom("accountGrower")
-            .whereRef("accountGrower.accountId", "=", "account.id")
-            .where("accountGrower.userId", "=", actor.id),
-        )
-        .as("grown"),
-    ])
-    .where("account.id", "=", accountId)
-    .executeTakeFirst();
-  if (!row) return undefined;
-  return {
-    accountId: row.id,
-    regionId: row.regionId,
-    servedByActor: Boolean(row.served),
-    grownByActor: Boolean(row.grown),
-  };
-}
-
 const NOT_FOUND = { ok: false, status: 404, error: "No such case." } as const;
 
 /**
@@ -133,7 +97,7 @@ export async function applyCaseAction(
       .forUpdate()
       .executeTakeFirst();
     if (!current) return NOT_FOUND;
-    const access = await accessTo(trx, actor, current.accountId);
+    const access = await findAccountAccess(actor, current.accountId, trx);
     if (!access) return NOT_FOUND;
     const role = caseRoleOf(actor, access, current.sharedWithGrower);
     if (role === "none") return NOT_FOUND;
@@ -230,7 +194,7 @@ export async function findCaseTimeline(actor: Actor, caseId: string): Promise<Ca
     .where("deletedAt", "is", null)
     .executeTakeFirst();
   if (!current) return undefined;
-  const access = await accessTo(db, actor, current.accountId);
+  const access = await findAccountAccess(actor, current.accountId);
   if (!access) return undefined;
   const role = caseRoleOf(actor, access, current.sharedWithGrower);
   if (role === "none") return undefined;

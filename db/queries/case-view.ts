@@ -394,6 +394,19 @@ export function caseAllowed(actor: Actor, access: AccountAccess, sharedWithGrowe
   return { read, decide: can(actor, "write", resource), comment: read };
 }
 
+/** Whether the case exists and the actor may read it (the case page's layout asks before streaming). */
+export async function caseReadableBy(actor: Actor, caseId: string): Promise<boolean> {
+  if (!isRecordId(caseId)) return false;
+  const c = await db
+    .selectFrom("injuryCase")
+    .select(["accountId", "sharedWithGrower"])
+    .where("id", "=", caseId)
+    .where("deletedAt", "is", null)
+    .executeTakeFirst();
+  const access = c && (await findAccountAccess(actor, c.accountId));
+  return Boolean(c && access && caseAllowed(actor, access, c.sharedWithGrower).read);
+}
+
 /** The case and everything behind it, or undefined when it does not exist or the actor may not read it. */
 export async function getCaseEvidence(actor: Actor, caseId: string): Promise<CaseEvidence | undefined> {
   if (!isRecordId(caseId)) return undefined;

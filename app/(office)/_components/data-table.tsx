@@ -36,7 +36,7 @@ export function TableShell({
   return (
     <section
       id={id}
-      className="overflow-x-auto rounded-card border border-soil-200 bg-white"
+      className="relative overflow-x-auto rounded-card border border-soil-200 bg-white"
       aria-label={caption}
       // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrollable table must be reachable by keyboard
       tabIndex={0}
