@@ -90,6 +90,8 @@ test("a grower sees their farm, opens a dig, acknowledges the recommendation and
 test("the grower home, the digs and fields tables and a dig page have no serious or critical axe violations", async ({
   browser,
 }) => {
+  // Four pages, each with an axe scan: on a loaded 2-core machine this takes more than a minute.
+  test.setTimeout(150_000);
   const page = await growerHome(browser);
   await expect(page.locator(".leaflet-container").first()).toBeVisible();
   expect(await seriousViolations(page)).toEqual([]);
