@@ -31,7 +31,9 @@ export async function migrate(db: Kysely<any>, direction: "latest" | "down" | "r
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === path.resolve(process.argv[1])) {
   const { createDb } = await import("./client");
-  const db = createDb();
+  const { env } = await import("@/lib/env");
+  // As the owner role: the app's role may not change the schema (scripts/services.ts).
+  const db = createDb(env.MIGRATION_DATABASE_URL);
   const arg = process.argv[2];
   try {
     await migrate(db, arg === "down" || arg === "reset" ? arg : "latest");

@@ -24,9 +24,15 @@ async function main() {
 
   try {
     services.push(...(await startServices(cfg)));
+    // Migrations as the owner role, the seed (rows only) as the app's role (scripts/services.ts).
+    const ownerDb = createDb(env.MIGRATION_DATABASE_URL, 2);
+    try {
+      await migrate(ownerDb);
+    } finally {
+      await ownerDb.destroy();
+    }
     const db = createDb(env.DATABASE_URL, 2);
     try {
-      await migrate(db);
       const seeded = await seedDemoIfEmpty(db);
       console.log(seeded ? "Seeded the demo scenario." : "Database already has data; seed skipped.");
     } finally {

@@ -302,19 +302,33 @@ describe("the audit trail in PostgreSQL", () => {
     await appDb.destroy();
   });
 
+  // Refused by privilege (the role holds no UPDATE, DELETE or TRUNCATE) or else by the trigger.
+  const refused = /permission denied|append-only/;
+
   it("refuses UPDATE, DELETE and TRUNCATE of event rows from the application's role", async () => {
     const before = await eventRows(caseId);
     const comment = before.find((e) => e.kind === "comment")!;
     await expect(
       appDb.updateTable("injuryCaseEvent").set({ body: "rewritten" }).where("id", "=", comment.id).execute(),
-    ).rejects.toThrow(/append-only/);
+    ).rejects.toThrow(refused);
     await expect(
       sql`update injury_case_event set actor_id = null where case_id = ${caseId}`.execute(appDb),
-    ).rejects.toThrow(/append-only/);
+    ).rejects.toThrow(refused);
     await expect(appDb.deleteFrom("injuryCaseEvent").where("caseId", "=", caseId).execute()).rejects.toThrow(
-      /append-only/,
+      refused,
     );
-    await expect(sql`truncate injury_case_event`.execute(appDb)).rejects.toThrow(/append-only/);
+    await expect(sql`truncate injury_case_event`.execute(appDb)).rejects.toThrow(refused);
+    expect(await eventRows(caseId)).toEqual(before);
+  });
+
+  it("does not let the application's role switch the trigger off: it does not own the table", async () => {
+    const before = await eventRows(caseId);
+    await expect(sql`alter table injury_case_event disable trigger all`.execute(appDb)).rejects.toThrow(
+      /must be owner/,
+    );
+    await expect(appDb.deleteFrom("injuryCaseEvent").where("caseId", "=", caseId).execute()).rejects.toThrow(
+      refused,
+    );
     expect(await eventRows(caseId)).toEqual(before);
   });
 });
