@@ -1,5 +1,5 @@
 import "server-only";
-import { type Expression, type SqlBool, sql } from "kysely";
+import { type SqlBool, sql } from "kysely";
 import { z } from "zod";
 import type { DigAssessment } from "@/lib/agronomy";
 import { type AccountAccess, type Actor, can } from "@/lib/auth/permissions";
@@ -7,7 +7,7 @@ import { isRecordId } from "@/lib/records/schemas";
 import { type TableQuery, type TableSpec, textFilter, uuidFilter } from "@/lib/tables/params";
 import { db } from "../client";
 import type { CaseStatus, InjuryCase, Placement } from "../schema";
-import { findAccountAccess } from "./access";
+import { accountVisibleTo, findAccountAccess } from "./access";
 
 // The read side of injury cases: the supervisor's queue (sorted, filtered and paged in SQL) and
 // everything the case page and the evidence file show. Writes live in lib/cases/workflow.ts.
@@ -75,37 +75,32 @@ export interface CaseList {
   counts: Record<CaseStatus, number>;
 }
 
-// Cases the actor may read: the account scope of lib/auth/permissions.ts, and for a grower only the
-// cases shared with them.
-function caseVisibleTo(actor: Actor): Expression<SqlBool> {
-  switch (actor.role) {
-    case "admin":
-      return sql<SqlBool>`true`;
-    case "supervisor":
-      return actor.regionId ? sql<SqlBool>`a.region_id = ${actor.regionId}` : sql<SqlBool>`false`;
-    case "rep":
-      return sql<SqlBool>`a.id in (select account_id from account_rep where user_id = ${actor.id})`;
-    case "grower":
-      return sql<SqlBool>`ic.shared_with_grower and a.id in (select account_id from account_grower where user_id = ${actor.id})`;
-  }
-}
-
 const AGE_DAYS = sql<number>`floor(extract(epoch from (now() - ic.created_at)) / 86400)::int`;
 const SEVERITY_RANK = sql<number>`case ic.severity when 'critical' then 0 when 'warning' then 1 else 2 end`;
 const STATUS_RANK = sql<number>`case ic.status when 'new' then 0 when 'in_review' then 1 when 'decided' then 2 else 3 end`;
 const UNDECIDED_FIRST = sql<number>`case when ic.status in ('new', 'in_review') then 0 else 1 end`;
 
 function baseQuery(actor: Actor) {
-  return db
-    .selectFrom("injuryCase as ic")
-    .innerJoin("account as a", "a.id", "ic.accountId")
-    .innerJoin("digSite as ds", "ds.id", "ic.digSiteId")
-    .innerJoin("field as f", "f.id", "ds.fieldId")
-    .leftJoin("planting as p", "p.id", "ds.plantingId")
-    .leftJoin("appUser as rep", "rep.id", "ds.repId")
-    .leftJoin("appUser as asg", "asg.id", "ic.assignedTo")
-    .where("ic.deletedAt", "is", null)
-    .where(caseVisibleTo(actor));
+  return (
+    db
+      .selectFrom("injuryCase as ic")
+      .innerJoin("account as a", "a.id", "ic.accountId")
+      .innerJoin("digSite as ds", "ds.id", "ic.digSiteId")
+      .innerJoin("field as f", "f.id", "ds.fieldId")
+      .leftJoin("planting as p", "p.id", "ds.plantingId")
+      .leftJoin("appUser as rep", "rep.id", "ds.repId")
+      .leftJoin("appUser as asg", "asg.id", "ic.assignedTo")
+      .where("ic.deletedAt", "is", null)
+      // Cases the actor may read: the one account scope rule, and for a grower only shared cases.
+      .where((eb) =>
+        eb(
+          "ic.accountId",
+          "in",
+          eb.selectFrom("account").select("account.id").where(accountVisibleTo(actor)),
+        ),
+      )
+      .$if(actor.role === "grower", (q) => q.where("ic.sharedWithGrower", "=", true))
+  );
 }
 type Base = ReturnType<typeof baseQuery>;
 

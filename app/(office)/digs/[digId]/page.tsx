@@ -82,7 +82,8 @@ export default async function DigPage({ params }: { params: Promise<{ digId: str
   const canComment = can(user, "write", resource) && user.role !== "admin";
   const hasRecommendation = Boolean(dig.recommendation?.trim());
   const acknowledged = responses.some((r) => r.kind === "acknowledged" && r.userId === user.id);
-  const showCase = digCase && (!isGrower || digCase.sharedWithGrower);
+  const showCase =
+    digCase && can(user, "read", { kind: "case", access, sharedWithGrower: digCase.sharedWithGrower });
 
   return (
     <article aria-labelledby="dig-heading" className="space-y-6">
