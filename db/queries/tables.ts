@@ -13,6 +13,7 @@ import {
 import { db } from "../client";
 import type { CaseStatus, Database } from "../schema";
 import { accountVisibleTo } from "./access";
+import { likePattern } from "./admin-users";
 
 // The office tables of accounts, fields and digs: scoped to what the actor may read, sorted,
 // filtered and paged in SQL, each with its total row count. The pages and the JSON routes under
@@ -22,8 +23,6 @@ export interface TablePage<R> {
   rows: R[];
   total: number;
 }
-
-const likePattern = (text: string) => `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
 function order(dir: SortDir) {
   return (ob: { asc(): { nullsLast(): unknown }; desc(): { nullsLast(): unknown } }) =>

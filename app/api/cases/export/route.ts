@@ -1,14 +1,8 @@
 import Papa from "papaparse";
 import { CASE_EXPORT_LIMIT, caseTableSpec, listCases } from "@/db/queries/case-view";
 import { authenticate, handle, jsonError } from "@/lib/http";
+import { csvCell } from "@/lib/reports/csv";
 import { parseTableQuery } from "@/lib/tables/params";
-
-// A spreadsheet opens a cell starting with = + - @ (or a tab/CR) as a formula: prefix such text.
-function safeCell(value: string | number | null): string | number {
-  if (value === null) return "";
-  if (typeof value === "number") return value;
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
 
 // GET /api/cases/export?<the queue's filters and sort>: every matching case as CSV (no paging).
 export const GET = handle("GET /api/cases/export", async (req) => {
@@ -52,7 +46,7 @@ export const GET = handle("GET /api/cases/export", async (req) => {
         r.hybrid,
         r.assignedToName,
         r.digSiteId,
-      ].map(safeCell),
+      ].map(csvCell),
     ),
   });
   const day = new Date().toISOString().slice(0, 10);
