@@ -215,7 +215,15 @@ export async function settleConflict(
         };
       }
       chosen = choice.choice === "server" ? conflict.serverValue : conflict.clientValue;
-      const side = deletedSide.parse(chosen);
+      const parsed = deletedSide.safeParse(chosen);
+      if (!parsed.success) {
+        return {
+          ok: false,
+          status: 409,
+          error: "This conflict's stored value cannot be applied; settle it the other way.",
+        };
+      }
+      const side = parsed.data;
       // The evidence of an open injury case stays until the case is closed (as for a device's delete).
       const digOfRow = table === "digSite" ? row.id : String(row.digSiteId);
       if (side.deleted && !row.deletedAt && (await openCase(trx, digOfRow))) {

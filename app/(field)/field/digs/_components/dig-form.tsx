@@ -235,6 +235,7 @@ export function DigForm({
           if (fix && getValues("latitude") === "") fillPosition(fix);
         });
       })
+      // Only the silent first try: the rep still has "Use my location", which reports its errors.
       .catch(() => {});
   }, [readOnly, initial.mode, getValues, fillPosition, position]);
 

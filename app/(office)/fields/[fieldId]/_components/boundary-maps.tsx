@@ -54,7 +54,13 @@ export function BoundaryDraw({
                 setState({ error: t("drawNothing") });
                 return;
               }
-              startTransition(async () => setState(await saveDrawnBoundaryAction(fieldId, drawn)));
+              startTransition(async () => {
+                try {
+                  setState(await saveDrawnBoundaryAction(fieldId, drawn));
+                } catch {
+                  setState({ error: t("drawUnreachable") });
+                }
+              });
             }}
           >
             {pending ? t("drawSaving") : t("drawSave")}

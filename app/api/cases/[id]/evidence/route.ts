@@ -23,7 +23,15 @@ export const GET = handle<Ctx>("GET /api/cases/[id]/evidence", async (_req, ctx)
   const format = await getFormatter({ locale: "en" });
   const when = (iso: string) =>
     `${format.dateTime(new Date(iso), { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" })} UTC`;
-  const photoBytes = await Promise.all(ev.photos.map((p) => getObjectBytes(p.objectKey).catch(() => null)));
+  // A photo the bucket cannot give back is named as missing in the file, and logged.
+  const photoBytes = await Promise.all(
+    ev.photos.map((p) =>
+      getObjectBytes(p.objectKey).catch((error: unknown) => {
+        console.warn(`Case ${ev.case.id}: photo ${p.sha256} could not be read from the bucket`, error);
+        return null;
+      }),
+    ),
+  );
   const { case: c, dig, field, account, planting, assessment } = ev;
   const title = t("pdf.title", { field: field.name, account: account.name });
   const generatedAt = new Date();
