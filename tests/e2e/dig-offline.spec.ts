@@ -209,7 +209,9 @@ test("a rep records a dig with three plants and two photos offline, and finds it
     .fill("Row 4, east end");
   await addPhoto(page, "plant 1", PORTRAIT, 1);
 
-  // The live summary is the agronomy core's assessment of what was entered (computed here too).
+  // The live summary is the agronomy core's assessment of what was entered (computed here too). The
+  // core's numbers are checked against their published sources in tests/unit/agronomy; this check is
+  // that the screen shows what the core computes for these plants.
   const entered: AssessmentPlant = {
     leafStage: "V3",
     seedingDepthIn: 1.75,

@@ -109,7 +109,9 @@ test("a bad weather file shows its row errors and imports nothing; a good one dr
   await expect(
     page.getByRole("img", { name: /Cumulative growing degree days since planting/ }),
   ).toBeVisible();
-  // 19 days × 17.5 GDD after the planting day, plus today projected at the same rate: 350 GDD, V2.
+  // 19 days × 17.5 GDD after the planting day, plus today projected at the same rate: 350 GDD, V2
+  // (the 86/50 °F method and the leaf-collar GDD thresholds of REFERENCES.md, as in
+  // tests/unit/weather-gdd-curve.test.ts; the arithmetic worked by hand).
   await expect(page.locator("p", { hasText: /predicted stage V2, 350 GDD/ })).toBeVisible();
   const station = await db
     .selectFrom("field")

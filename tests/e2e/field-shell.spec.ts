@@ -209,7 +209,9 @@ test("before any download Today says to connect once, and a refused sync says wh
 });
 
 test("Today shows the rep's own fields with their predicted stage once data is pulled", async ({ page }) => {
-  // A fixed day inside the demo season's weather: every stage comes from recorded temperatures.
+  // A fixed day inside the demo season's weather: every stage comes from recorded temperatures. The
+  // stage and window come from the agronomy core (checked against REFERENCES.md in tests/unit/agronomy);
+  // this check is that Today shows them for the rep's own fields.
   const today = "2026-05-01";
   await page.clock.setFixedTime(new Date(`${today}T10:00:00`));
   await signInAs(page, "rep1");

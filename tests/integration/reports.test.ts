@@ -225,7 +225,7 @@ describe("field report", () => {
     expect(text).toContain(FIELD_NAME);
     expect(text).toContain(HYBRID);
     expect(text).toContain(SITE_INDEX.toFixed(1));
-    // Root index by hybrid: n = 2, mean of the plants' indices.
+    // Root index by hybrid: n = 2, the arithmetic mean of the plants' indices (worked here by hand).
     expect(text).toContain(((PLANT_INDICES[0]! + PLANT_INDICES[1]!) / 2).toFixed(1));
     expect(text).toContain("Computed rates and limits are guidance");
     expect(text).toContain("licensed adviser");

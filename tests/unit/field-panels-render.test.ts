@@ -41,6 +41,8 @@ describe("field panels render", () => {
 
   it("words a clear difference with its numbers and the small-n caveat", async () => {
     const html = renderToStaticMarkup(await HybridStatsPanel({ comparison: compareHybrids(digs) }));
+    // 19.0 is the difference of the fixture means worked by hand; "clear" is Welch's p < 0.05, the test
+    // itself checked against R's sleep-data example in field-panels.test.ts (from memory).
     expect(html).toContain(
       "Strip A scored 19.0 points higher than Strip B: the difference is statistically clear at 5 %.",
     );

@@ -96,6 +96,8 @@ describe("compareHybrids", () => {
     expect(result.smallN).toBe(false);
   });
 
+  // A wide gap with small spread gives p far below 0.05, and equal values give zero variance, for which
+  // Welch's t is undefined (its definition; common practice, no source).
   it("a wide gap with little spread is clear; pairs of three hybrids; identical values cannot be tested", () => {
     const result = compareHybrids([
       { hybrid: "A", rootIndex: 80 },

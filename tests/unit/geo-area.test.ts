@@ -152,6 +152,7 @@ describe("geometryArea", () => {
     expect(hectares).toBeCloseTo(94.71, 2);
   });
 
+  // A symmetric shape's centroid is its centre of symmetry (plane geometry, common practice, no source).
   it("puts the centroid of a box at its middle and of a circle at its centre", () => {
     const box: AreaGeometry = {
       type: "Polygon",

@@ -23,6 +23,8 @@ describe("gddCurve", () => {
     ]);
   });
 
+  // A missing day adds nothing unless a normal fills it: our stated rule (README "Method"), common
+  // practice, no source.
   it("a day missing between records counts 0 without a normal; the curve stops at the last record", () => {
     const curve = gddCurve(records, "2026-05-01", "2026-05-09");
     expect(curve.map((p) => p.cumulativeGddF)).toEqual([0, 17.5, 27.5, 27.5, 45]);
